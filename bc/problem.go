@@ -1,0 +1,266 @@
+package bc
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"github.com/phigrid/phigrid/grid"
+)
+
+// ErrProblem is wrapped by every error that reports an invalid problem
+// description.
+var ErrProblem = errors.New("bc: invalid problem")
+
+// Kind says what a Region is.
+type Kind int
+
+const (
+	// Dielectric regions set the relative permittivity.
+	Dielectric Kind = iota
+	// ConductorRegion regions belong to a named conductor.
+	ConductorRegion
+	// Charge regions carry a free-charge density.
+	Charge
+)
+
+// String returns the kind's name.
+func (k Kind) String() string {
+	switch k {
+	case Dielectric:
+		return "dielectric"
+	case ConductorRegion:
+		return "conductor"
+	case Charge:
+		return "charge"
+	}
+	return fmt.Sprintf("Kind(%d)", int(k))
+}
+
+// Region is one shape of a problem with its role.
+type Region struct {
+	// Name labels the region in messages and reports (optional).
+	Name  string
+	Shape Shape
+	Kind  Kind
+	// Conductor names the conductor a ConductorRegion belongs to; several
+	// regions may make up one conductor.
+	Conductor string
+	// EpsR is the relative permittivity of a Dielectric region (required,
+	// > 0) or of a Charge region (optional; 0 keeps what lies beneath).
+	EpsR float64
+	// Rho is the free-charge density of a Charge region, in C/m³.
+	Rho float64
+}
+
+// Conductor is an electrode: a named set of regions at one potential.
+type Conductor struct {
+	Name string
+	// Potential is the conductor's fixed potential in volts. For a
+	// floating conductor it is the initial guess and is replaced by the
+	// potential that gives it the charge Charge.
+	Potential float64
+	// Floating marks a conductor whose charge, not potential, is given.
+	Floating bool
+	// Charge is the net charge of a floating conductor: C/m in a planar
+	// problem, C in an axisymmetric one.
+	Charge float64
+}
+
+// PointCharge is a concentrated source: a line charge in C/m normal to the
+// plane of a planar problem, or a ring charge of total charge Q in C about
+// the axis of an axisymmetric problem (a point charge when it sits on the
+// axis).
+type PointCharge struct {
+	Name string
+	X, Y float64
+	Q    float64
+}
+
+// SideKind is the kind of an outer boundary condition.
+type SideKind int
+
+const (
+	// ZeroFlux is the homogeneous Neumann condition ∂φ/∂n = 0: a symmetry
+	// plane or an insulating wall. It is the default.
+	ZeroFlux SideKind = iota
+	// Fixed holds the side at a potential: either a named conductor's or a
+	// prescribed value or function.
+	Fixed
+)
+
+// String returns the kind's name.
+func (k SideKind) String() string {
+	switch k {
+	case ZeroFlux:
+		return "zero-flux"
+	case Fixed:
+		return "fixed"
+	}
+	return fmt.Sprintf("SideKind(%d)", int(k))
+}
+
+// Side is the boundary condition on one side of the domain.
+type Side struct {
+	Kind SideKind
+	// Conductor, when set on a Fixed side, makes the side part of that
+	// conductor, so its charge appears in the capacitance matrix.
+	Conductor string
+	// Potential is the prescribed potential of a Fixed side without a
+	// conductor, in volts.
+	Potential float64
+	// Func, when not nil, prescribes the potential φ(x, y) along a Fixed
+	// side without a conductor instead of the constant Potential.
+	Func func(x, y float64) float64
+}
+
+// Side indices into Problem.Sides.
+const (
+	Left   = 0 // x = X0 (the axis r = 0 in most axisymmetric problems)
+	Right  = 1 // x = X1
+	Bottom = 2 // y = Y0
+	Top    = 3 // y = Y1
+)
+
+// SideNames names the sides in the order of the side indices.
+var SideNames = [4]string{"left", "right", "bottom", "top"}
+
+// Problem is a complete electrostatic problem in continuous space.
+type Problem struct {
+	Metric grid.Metric
+	// Domain is the rectangle the problem lives in. In an axisymmetric
+	// problem X is r and the domain must have X0 ≥ 0.
+	Domain Rect
+	// Background is the relative permittivity where no region sets one.
+	// Zero means 1 (vacuum).
+	Background float64
+	Conductors []Conductor
+	Regions    []Region
+	Charges    []PointCharge
+	Sides      [4]Side
+}
+
+// ConductorIndex returns the index of the named conductor, or −1.
+func (p *Problem) ConductorIndex(name string) int {
+	for k, c := range p.Conductors {
+		if c.Name == name {
+			return k
+		}
+	}
+	return -1
+}
+
+// Validate checks the problem for errors a user can make: malformed
+// shapes, shapes outside the domain, r < 0, non-positive permittivity,
+// undefined or duplicate conductors, and no fixed potential anywhere.
+func (p *Problem) Validate() error {
+	d := p.Domain
+	if err := d.Validate(); err != nil || !(d.X0 < d.X1) || !(d.Y0 < d.Y1) {
+		return fmt.Errorf("%w: the domain [%g, %g]×[%g, %g] must be a rectangle of positive size", ErrProblem, d.X0, d.X1, d.Y0, d.Y1)
+	}
+	if p.Metric == grid.Axisymmetric && d.X0 < 0 {
+		return fmt.Errorf("%w: an axisymmetric domain needs r ≥ 0, but it starts at r = %g", ErrProblem, d.X0)
+	}
+	if p.Background < 0 || math.IsNaN(p.Background) || math.IsInf(p.Background, 0) {
+		return fmt.Errorf("%w: background permittivity must be positive, got %g", ErrProblem, p.Background)
+	}
+	seen := map[string]bool{}
+	for _, c := range p.Conductors {
+		if c.Name == "" {
+			return fmt.Errorf("%w: every conductor needs a name", ErrProblem)
+		}
+		if seen[c.Name] {
+			return fmt.Errorf("%w: conductor %q is defined twice", ErrProblem, c.Name)
+		}
+		seen[c.Name] = true
+		if !finite(c.Potential, c.Charge) {
+			return fmt.Errorf("%w: conductor %q has a potential or charge that is not finite", ErrProblem, c.Name)
+		}
+	}
+	used := make([]bool, len(p.Conductors))
+	for n, r := range p.Regions {
+		label := regionLabel(n, r)
+		if r.Shape == nil {
+			return fmt.Errorf("%w: %s has no shape", ErrProblem, label)
+		}
+		if err := r.Shape.Validate(); err != nil {
+			return fmt.Errorf("%w: %s: %v", ErrProblem, label, err)
+		}
+		x0, y0, x1, y1 := r.Shape.Bounds()
+		if p.Metric == grid.Axisymmetric && x0 < -1e-12*(d.X1-d.X0) {
+			return fmt.Errorf("%w: %s reaches r = %g < 0; an axisymmetric shape must lie at r ≥ 0", ErrProblem, label, x0)
+		}
+		if x1 < d.X0 || x0 > d.X1 || y1 < d.Y0 || y0 > d.Y1 {
+			return fmt.Errorf("%w: %s lies entirely outside the domain", ErrProblem, label)
+		}
+		switch r.Kind {
+		case ConductorRegion:
+			k := p.ConductorIndex(r.Conductor)
+			if k < 0 {
+				return fmt.Errorf("%w: %s belongs to conductor %q, which is not defined", ErrProblem, label, r.Conductor)
+			}
+			used[k] = true
+		case Dielectric:
+			if !(r.EpsR > 0) || math.IsInf(r.EpsR, 0) {
+				return fmt.Errorf("%w: %s needs a relative permittivity > 0, got %g", ErrProblem, label, r.EpsR)
+			}
+		case Charge:
+			if r.EpsR < 0 || !finite(r.EpsR, r.Rho) {
+				return fmt.Errorf("%w: %s needs a finite charge density and a permittivity ≥ 0 (0 keeps the one beneath)", ErrProblem, label)
+			}
+		default:
+			return fmt.Errorf("%w: %s has unknown kind %d", ErrProblem, label, int(r.Kind))
+		}
+	}
+	for _, q := range p.Charges {
+		if !finite(q.X, q.Y, q.Q) || !d.Contains(q.X, q.Y) {
+			return fmt.Errorf("%w: point charge %q at (%g, %g) must be finite and inside the domain", ErrProblem, q.Name, q.X, q.Y)
+		}
+	}
+	anyFixed := false
+	for s, side := range p.Sides {
+		switch side.Kind {
+		case ZeroFlux:
+		case Fixed:
+			if p.Metric == grid.Axisymmetric && s == Left && d.X0 == 0 {
+				return fmt.Errorf("%w: the left side is the axis r = 0; it needs no boundary condition, so make it zero-flux", ErrProblem)
+			}
+			if side.Conductor != "" {
+				k := p.ConductorIndex(side.Conductor)
+				if k < 0 {
+					return fmt.Errorf("%w: the %s side belongs to conductor %q, which is not defined", ErrProblem, SideNames[s], side.Conductor)
+				}
+				used[k] = true
+				if !p.Conductors[k].Floating {
+					anyFixed = true
+				}
+			} else {
+				if !finite(side.Potential) {
+					return fmt.Errorf("%w: the %s side has a potential that is not finite", ErrProblem, SideNames[s])
+				}
+				anyFixed = true
+			}
+		default:
+			return fmt.Errorf("%w: the %s side has unknown kind %d", ErrProblem, SideNames[s], int(side.Kind))
+		}
+	}
+	for k, c := range p.Conductors {
+		if !used[k] {
+			return fmt.Errorf("%w: conductor %q has no region and no side; give it a shape or remove it", ErrProblem, c.Name)
+		}
+		if !c.Floating {
+			anyFixed = true
+		}
+	}
+	if !anyFixed {
+		return fmt.Errorf("%w: nothing has a fixed potential, so the potential is undetermined; fix a conductor's potential or a side's", ErrProblem)
+	}
+	return nil
+}
+
+func regionLabel(n int, r Region) string {
+	if r.Name != "" {
+		return fmt.Sprintf("region %d (%q)", n, r.Name)
+	}
+	return fmt.Sprintf("region %d", n)
+}
