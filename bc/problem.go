@@ -187,8 +187,10 @@ func (p *Problem) Validate() error {
 			return fmt.Errorf("%w: %s: %v", ErrProblem, label, err)
 		}
 		x0, y0, x1, y1 := r.Shape.Bounds()
-		if p.Metric == grid.Axisymmetric && x0 < -1e-12*(d.X1-d.X0) {
-			return fmt.Errorf("%w: %s reaches r = %g < 0; an axisymmetric shape must lie at r ≥ 0", ErrProblem, label, x0)
+		if p.Metric == grid.Axisymmetric {
+			if r0 := minRadius(r.Shape); r0 < -1e-12*(d.X1-d.X0) {
+				return fmt.Errorf("%w: %s has r = %g < 0; an axisymmetric shape must be given at r ≥ 0 (a circle may be centred on the axis)", ErrProblem, label, r0)
+			}
 		}
 		if x1 < d.X0 || x0 > d.X1 || y1 < d.Y0 || y0 > d.Y1 {
 			return fmt.Errorf("%w: %s lies entirely outside the domain", ErrProblem, label)
@@ -263,4 +265,20 @@ func regionLabel(n int, r Region) string {
 		return fmt.Sprintf("region %d (%q)", n, r.Name)
 	}
 	return fmt.Sprintf("region %d", n)
+}
+
+// minRadius returns the smallest r at which a shape is defined in an
+// axisymmetric problem: its leftmost vertex or corner, or the centre of a
+// circle or annulus (a circle centred on the axis is a sphere).
+func minRadius(s Shape) float64 {
+	switch v := s.(type) {
+	case Circle:
+		return v.X
+	case Annulus:
+		return v.X
+	case Strip:
+		return math.Min(v.X0, v.X1)
+	}
+	x0, _, _, _ := s.Bounds()
+	return x0
 }

@@ -28,7 +28,8 @@ type Options struct {
 	Samples int
 	// Snap is the cut fraction below which a free node next to a conductor
 	// is moved onto the conductor, which keeps the system well conditioned.
-	// Zero means 0.05; a negative value disables snapping.
+	// Zero means 1e-3; a negative value disables snapping. Larger values
+	// move the conductor surface by up to Snap·h and cost accuracy.
 	Snap float64
 }
 
@@ -144,7 +145,7 @@ func Rasterize(p *Problem, g *grid.Grid, opt *Options) (*Map, error) {
 		o.Samples = 4
 	}
 	if o.Snap == 0 {
-		o.Snap = 0.05
+		o.Snap = 1e-3
 	}
 	r := &rasterizer{p: p, g: g, bg: p.Background}
 	if r.bg == 0 {

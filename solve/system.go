@@ -66,6 +66,9 @@ type System struct {
 	// FixedLinks are the links between fixed nodes of different potential
 	// sources (two conductors, or a conductor and a prescribed side).
 	FixedLinks []Link
+	// PrescribedLinks are the links from a free node (A) to a prescribed
+	// node (B); their flux enters the right-hand side through Prescribed.
+	PrescribedLinks []Link
 	// Map is the rasterised problem the system came from.
 	Map *bc.Map
 }
@@ -279,4 +282,5 @@ func (s *System) fixedCoupling(a, b int, gl float64, addPart func(k int32)) {
 		return
 	}
 	s.Prescribed[a] += gl * m.Value[b]
+	s.PrescribedLinks = append(s.PrescribedLinks, Link{int32(a), int32(b), gl})
 }
