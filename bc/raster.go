@@ -264,7 +264,7 @@ func (r *rasterizer) nodes(m *Map, states []pointState) error {
 
 // dualEdges returns the control-volume interval [lo, hi) of node i.
 func dualEdges(a []float64, i int) (lo, hi float64) {
-	lo, hi = a[i], a[i]
+	lo = a[i]
 	if i > 0 {
 		lo = 0.5 * (a[i-1] + a[i])
 	}

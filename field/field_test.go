@@ -68,7 +68,7 @@ func TestParallelPlates(t *testing.T) {
 		epsR  float64
 		wantC float64 // F/m
 	}{
-		// source: REFERENCES P01, C' = ε0 εr w/d (Griffiths, Introduction to Electrodynamics)
+		// source: Griffiths, Introduction to Electrodynamics, Gauss's law: C' = ε0 εr w/d
 		{"air", 1, 88.541878e-12},
 		{"fr4", 4.4, 389.58426e-12},
 	} {
@@ -92,12 +92,12 @@ func TestParallelPlates(t *testing.T) {
 				if sol.Map.Kind[n] != bc.Free {
 					continue
 				}
-				// source: REFERENCES P01, E = V/d = 1000 V/m
+				// source: Griffiths, Introduction to Electrodynamics: E = V/d = 1000 V/m
 				if math.Abs(ex[n]) > 1e-6 || math.Abs(-ey[n]-1000) > 1e-6 {
 					t.Fatalf("node %d: E = (%g, %g), want (0, -1000)", n, ex[n], ey[n])
 				}
 			}
-			// W' = C'V²/2, source: REFERENCES P01 (44.270939 pJ/m for air)
+			// source: Griffiths, Introduction to Electrodynamics: W' = C'V²/2 (44.270939 pJ/m for air)
 			if e := relErr(sol.Energy(), 0.5*c.wantC); e > 1e-7 {
 				t.Errorf("W' = %g, want %g", sol.Energy(), 0.5*c.wantC)
 			}
@@ -111,18 +111,18 @@ func TestSeriesLayers(t *testing.T) {
 	g := mustGrid(t, uniform(t, 0, 0.01, 11), uniform(t, 0, 0.001, 51), grid.Planar)
 	sol := mustSolve(t, p, g, nil)
 	q := sol.Charges()
-	// source: REFERENCES P02(a), C' = ε0 w/(d1/εr1 + d2/εr2)
+	// source: series capacitors, D_n continuous (Griffiths, Introduction to Electrodynamics): C' = ε0 w/(d1/εr1 + d2/εr2)
 	if e := relErr(q[0], 165.07808e-12); e > 1e-7 {
 		t.Errorf("C' = %.9g, want 165.07808 pF/m", q[0])
 	}
 	phi, _ := sol.PotentialAt(0.005, 0.0006)
-	// source: REFERENCES P02(a), interface potential
+	// source: same series-layer closed form: interface potential
 	if math.Abs(phi-0.25423729) > 1e-8 {
 		t.Errorf("interface potential %.9g, want 0.25423729", phi)
 	}
 	_, eyAir, _ := sol.FieldAt(0.005, 0.0008)
 	_, eyDiel, _ := sol.FieldAt(0.005, 0.0003)
-	// source: REFERENCES P02(a), E_air = 1864.4068, E_diel = 423.72881 V/m
+	// source: same series-layer closed form: E_air = 1864.4068, E_diel = 423.72881 V/m
 	if relErr(-eyAir, 1864.4068) > 1e-6 || relErr(-eyDiel, 423.72881) > 1e-6 {
 		t.Errorf("fields %g (air), %g (dielectric), want 1864.4068 and 423.72881", -eyAir, -eyDiel)
 	}
@@ -149,9 +149,9 @@ func coaxQuarter(a, b, epsR float64) *bc.Problem {
 // capacitance error.
 func TestCoaxConvergence(t *testing.T) {
 	const a, b = 1e-3, 3e-3
-	// source: REFERENCES P04(a), Ramo, Whinnery & Van Duzer; C' = 2πε0/ln 3
+	// source: Ramo, Whinnery & Van Duzer, Fields and Waves in Communication Electronics, 1994: C' = 2πε0/ln(b/a)
 	wantC := 50.638886e-12
-	// source: REFERENCES P04(a), E(a) = V/(a ln(b/a))
+	// source: Ramo, Whinnery & Van Duzer, 1994: E(a) = V/(a ln(b/a))
 	wantEa := 910.23923
 	sizes := []int{41, 81, 161}
 	if !testing.Short() {
@@ -200,7 +200,7 @@ func TestConcentricSpheres(t *testing.T) {
 			{Kind: bc.ConductorRegion, Conductor: "inner", Shape: bc.Circle{R: a}},
 		},
 	}
-	// source: REFERENCES A01(a), C = 4πε0 ab/(b−a) (Jackson)
+	// source: Jackson, Classical Electrodynamics, 3rd ed., 1999: C = 4πε0 ab/(b−a)
 	want := 2.2253001e-12
 	var errs []float64
 	for _, n := range []int{41, 81, 161} {
@@ -236,7 +236,7 @@ func TestChargedCylinder(t *testing.T) {
 		r, want float64
 		tol     float64
 	}{
-		// source: REFERENCES P14, Gauss's law: φ(0), φ(5 mm), φ(a)
+		// source: Gauss's law (any textbook, e.g. Griffiths): φ(0), φ(5 mm), φ(a)
 		{0, 11.912092, 2e-3},
 		{0.005, 11.206211, 2e-3},
 		{a, 9.0885689, 3e-3},
@@ -269,7 +269,7 @@ func TestSquareSeries(t *testing.T) {
 	}
 	sol := mustSolve(t, lap, g, nil)
 	for _, c := range []struct{ x, y, want, tol float64 }{
-		// source: REFERENCES P03(a), separation of variables (Jackson ch. 2)
+		// source: separation of variables, Jackson, Classical Electrodynamics, 3rd ed., ch. 2 (from memory), series summed
 		{0.5, 0.5, 0.25, 1e-5},
 		{0.5, 0.75, 0.54052922, 1e-4},
 		{0.25, 0.25, 0.067971668, 1e-4},
@@ -290,7 +290,7 @@ func TestSquareSeries(t *testing.T) {
 	sol = mustSolve(t, pois, g, nil)
 	scale := 1e-6 * L * L / eps0
 	for _, c := range []struct{ x, y, u float64 }{
-		// source: REFERENCES P03(b), Prandtl torsion function series (Timoshenko & Goodier, from memory)
+		// source: Prandtl torsion function series, Timoshenko & Goodier, Theory of Elasticity, 1970 (from memory), series summed
 		{0.5, 0.5, 0.073671353},
 		{0.25, 0.5, 0.057334906},
 	} {
@@ -299,7 +299,7 @@ func TestSquareSeries(t *testing.T) {
 			t.Errorf("Poisson φ(%gL, %gL) = %.9g, want %.9g", c.x, c.y, got, c.u*scale)
 		}
 	}
-	// source: REFERENCES P03(b), W' = ½∫ρφ = 19.846119 pJ/m
+	// source: same series, W' = ½∫ρφ = 19.846119 pJ/m
 	if e := relErr(sol.Energy(), 19.846119e-12); e > 2e-4 {
 		t.Errorf("W' = %.8g, want 19.846119 pJ/m (rel err %.2g)", sol.Energy(), e)
 	}

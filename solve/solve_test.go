@@ -119,7 +119,7 @@ func TestParallelKernelsMatchReference(t *testing.T) {
 }
 
 // TestUnitSquare checks the discrete solution of −Δφ = 1 at the centre
-// against the series value u(½,½) = 0.073671353 (REFERENCES P03(b)).
+// against the series value u(½,½) = 0.073671353 (Prandtl torsion function series).
 func TestUnitSquare(t *testing.T) {
 	s := unitSquare(t, 129)
 	b := s.RHS(nil, nil, true, true)
@@ -130,7 +130,7 @@ func TestUnitSquare(t *testing.T) {
 			t.Fatal(err)
 		}
 		got := x[s.Grid.Index(64, 64)]
-		// source: REFERENCES P03(b), series of the Prandtl torsion function
+		// source: series of the Prandtl torsion function
 		// (Timoshenko & Goodier, from memory); O(h²) discretisation error.
 		if math.Abs(got/0.073671353-1) > 1e-4 {
 			t.Errorf("%v: centre value %.9g, want 0.073671353", m, got)

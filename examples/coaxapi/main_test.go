@@ -9,7 +9,7 @@ import (
 
 // TestRun checks that every printed relative error is small: the closed
 // forms are those of a coaxial line (Ramo, Whinnery & Van Duzer; values in
-// REFERENCES P04).
+// Fields and Waves in Communication Electronics, 1994).
 func TestRun(t *testing.T) {
 	var buf bytes.Buffer
 	if err := run(&buf, 81); err != nil {

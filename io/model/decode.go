@@ -664,8 +664,14 @@ func (d *decoder) grid(raw *rawFile) error {
 		key = "grid.cell"
 	}
 	if est := bc.EstimateNodes(d.p, mesh); !(est <= float64(mesh.MaxNodes)) {
-		return d.errAt(key, "the grid would need about %.3g nodes (cell %s, refine %g), more than the cap of %d; make [grid] cell larger, or raise the cap with [grid] max_nodes = %.0f",
-			est, d.length(mesh.Cell), mesh.Refine, mesh.MaxNodes, math.Ceil(est*1.1))
+		e := d.errAt(key, "the grid would need about %.3g nodes (cell %s, refine %g), more than the cap of %d nodes; make [grid] cell larger or refine smaller",
+			est, d.length(mesh.Cell), mesh.Refine, mesh.MaxNodes)
+		need := math.Ceil(est * 1.1)
+		if total := memTotal(); need <= math.MaxInt32 && (total == 0 || need*BytesPerNode <= float64(total)) {
+			e.Msg += fmt.Sprintf(", or raise the cap with [grid] max_nodes = %.0f (about %s of memory)", need, bytesString(need*BytesPerNode))
+		}
+		e.Err = fmt.Errorf("%w: %w", ErrInvalid, bc.ErrTooLarge)
+		return e
 	}
 	gr, err := bc.AutoGrid(d.p, mesh)
 	if err != nil {
@@ -817,7 +823,7 @@ func (d *decoder) picture(key string, p rawPicture) (Picture, error) {
 	}
 	for _, k := range only {
 		if d.ix.has(join(key, k)) {
-			return Picture{}, d.schemaAt(join(key, k), "%s does not apply to a %q picture", k, p.Kind)
+			return Picture{}, d.schemaAt(join(key, k), "%s does not apply to pictures of kind %q", k, p.Kind)
 		}
 	}
 	pic.File = p.Kind + ".png"

@@ -86,9 +86,11 @@ func (d *decoder) schemaAt(key, format string, args ...any) *Error {
 func (d *decoder) missing(table, key, what string) *Error {
 	full := join(table, key)
 	p := d.ix.find(table)
-	where := "table [" + table + "]"
+	where := table
 	if table == "" {
 		where = "the top level"
+	} else if !strings.HasSuffix(table, "]") {
+		where = "[" + table + "]"
 	}
 	return &Error{File: d.name, Line: p.line, Column: p.col, Key: full, Err: ErrSchema,
 		Msg: fmt.Sprintf("missing key %q in %s: %s", key, where, what)}

@@ -3,6 +3,7 @@ package model
 import (
 	"bufio"
 	"bytes"
+	"fmt"
 	"math"
 	"os"
 	"strconv"
@@ -94,6 +95,9 @@ func (d *decoder) overlaps(*rawFile) error {
 		n = int(math.Sqrt(4e6 / float64(len(pairs)*(len(p.Regions)+1))))
 		n = max(3, min(n, 41))
 	}
+	if err := d.hidden(shapes, condOf, stateBefore); err != nil {
+		return err
+	}
 	for _, pr := range pairs {
 		for _, pt := range samples(pr.box, n, shapes[pr.a], shapes[pr.b]) {
 			x, y := pt[0], pt[1]
@@ -136,6 +140,64 @@ func (d *decoder) overlaps(*rawFile) error {
 			return d.errAt("boundary."+bc.SideNames[c[1]], "the %s and %s sides meet at a corner but belong to conductors %q and %q at different potentials; let one of them end before the corner, for example with a fixed potential on one side instead of a conductor",
 				bc.SideNames[c[0]], bc.SideNames[c[1]], a.Conductor, b.Conductor)
 		}
+	}
+	return nil
+}
+
+// hidden finds a conductor that later regions cover completely, so that no
+// grid node would belong to it: a mistake in the region order.
+func (d *decoder) hidden(shapes []bc.Shape, condOf []int, stateBefore func(x, y float64, n int) (int, int)) error {
+	p := d.p
+	dom := p.Domain
+	visible := make([]bool, len(p.Conductors))
+	for _, s := range p.Sides {
+		if s.Kind == bc.Fixed && s.Conductor != "" {
+			visible[p.ConductorIndex(s.Conductor)] = true
+		}
+	}
+	lastRegion := make([]int, len(p.Conductors))
+	coverer := make([]int, len(p.Conductors))
+	for n, k := range condOf {
+		if k < 0 || visible[k] {
+			continue
+		}
+		lastRegion[k] = n
+		x0, y0, x1, y1 := shapes[n].Bounds()
+		box := [4]float64{math.Max(x0, dom.X0), math.Max(y0, dom.Y0), math.Min(x1, dom.X1), math.Min(y1, dom.Y1)}
+		pts := samples(box, 17, shapes[n])
+		ax, ay := shapes[n].Anchor()
+		pts = append(pts, [2]float64{ax, ay})
+		for _, pt := range pts {
+			if !shapes[n].Contains(pt[0], pt[1]) && (pt[0] != ax || pt[1] != ay) {
+				continue
+			}
+			c, r := stateBefore(pt[0], pt[1], len(p.Regions))
+			if c == k {
+				visible[k] = true
+				break
+			}
+			if pt[0] == ax && pt[1] == ay {
+				coverer[k] = r
+			}
+		}
+	}
+	for k, c := range p.Conductors {
+		if visible[k] {
+			continue
+		}
+		n := lastRegion[k]
+		ax, ay := shapes[n].Anchor()
+		by := ""
+		if _, r := stateBefore(ax, ay, len(p.Regions)); r >= 0 || coverer[k] >= 0 {
+			_ = r
+		}
+		for m := len(p.Regions) - 1; m > n; m-- {
+			if shapes[m].Contains(ax, ay) {
+				by = fmt.Sprintf(" (%s covers it)", d.lineOf(d.m.regionKeys[m]))
+				break
+			}
+		}
+		return d.errAt(d.m.regionKeys[n], "conductor %q is hidden: regions later in the file cover all of it%s, and later regions override earlier ones; move its [[region]] after the regions that cover it", c.Name, by)
 	}
 	return nil
 }
