@@ -35,21 +35,25 @@ const (
 	MaxNPYHeader = 1 << 16
 	// npyChunk is the number of elements converted per read or write.
 	npyChunk = 4096
+	// npyMaxDims is the most dimensions an array may have, as in NumPy.
+	npyMaxDims = 64
 )
 
-// WriteNPY writes data as a NumPy .npy file (format version 1.0, or 2.0 if
-// the header would not fit) with element type '<f8' (little-endian float64)
-// in C order. The header is byte-for-byte what numpy.save writes for the
-// same array.
+// WriteNPY writes data as a NumPy .npy file (format version 1.0) with
+// element type '<f8' (little-endian float64) in C order. The header is
+// byte-for-byte what numpy.save writes for the same array.
 //
-// The shape defaults to one dimension of len(data). Otherwise every
-// dimension must be ≥ 0 and their product must be len(data). A field on the
+// The shape defaults to one dimension of len(data). Otherwise it has at
+// most 64 dimensions, each ≥ 0, and their product must be len(data). A field on the
 // nodes of a grid g is written with shape (g.Ny(), g.Nx()), so that element
 // [j, i] of the NumPy array is node (i, j); a field on cells uses
 // (g.Ny()−1, g.Nx()−1).
 func WriteNPY(w io.Writer, data []float64, shape ...int) error {
 	if len(shape) == 0 {
 		shape = []int{len(data)}
+	}
+	if len(shape) > npyMaxDims {
+		return invalidf("NPY arrays have at most %d dimensions, not %d", npyMaxDims, len(shape))
 	}
 	n := 1
 	for k, d := range shape {
@@ -99,35 +103,23 @@ func pyShape(shape []int) string {
 }
 
 // npyHeader returns magic, version, length and padded header for a C-order
-// array, laid out as numpy's _write_array_header does.
+// array, laid out as numpy's _write_array_header does. With at most
+// npyMaxDims dimensions the header always fits format version 1.0.
 func npyHeader(descr string, shape []int) []byte {
 	dict := "{'descr': '" + descr + "', 'fortran_order': False, 'shape': " + pyShape(shape) + ", }"
 	if len(shape) > 0 {
 		dict += strings.Repeat(" ", max(0, npyGrowth-len(strconv.Itoa(shape[0]))))
 	}
 	hlen := len(dict) + 1 // with the closing newline
-	prefix := len(npyMagic) + 2 + 2
-	major := byte(1)
+	const prefix = len(npyMagic) + 2 + 2
 	pad := npyAlign - (prefix+hlen)%npyAlign
-	if hlen+pad > math.MaxUint16 {
-		major = 2
-		prefix += 2
-		pad = npyAlign - (prefix+hlen)%npyAlign
-	}
-	var b bytes.Buffer
-	b.Grow(prefix + hlen + pad)
-	b.WriteString(npyMagic)
-	b.WriteByte(major)
-	b.WriteByte(0)
-	if major == 1 {
-		binary.Write(&b, binary.LittleEndian, uint16(hlen+pad))
-	} else {
-		binary.Write(&b, binary.LittleEndian, uint32(hlen+pad))
-	}
-	b.WriteString(dict)
-	b.WriteString(strings.Repeat(" ", pad))
-	b.WriteByte('\n')
-	return b.Bytes()
+	b := make([]byte, 0, prefix+hlen+pad)
+	b = append(b, npyMagic...)
+	b = append(b, 1, 0)
+	b = binary.LittleEndian.AppendUint16(b, uint16(hlen+pad))
+	b = append(b, dict...)
+	b = append(b, strings.Repeat(" ", pad)...)
+	return append(b, '\n')
 }
 
 // npyType describes an element type ReadNPY converts to float64.
@@ -406,8 +398,8 @@ func (p *pyParser) tuple() ([]int, error) {
 		if err != nil {
 			return nil, p.errf("shape dimension %s is too large", p.s[p.i:j])
 		}
-		if len(shape) >= 64 {
-			return nil, p.errf("the shape has more than 64 dimensions")
+		if len(shape) >= npyMaxDims {
+			return nil, p.errf("the shape has more than %d dimensions", npyMaxDims)
 		}
 		shape = append(shape, int(d))
 		p.i = j

@@ -64,8 +64,7 @@ func TestNPYHeaderBytes(t *testing.T) {
 func TestNPYHeaderAlignment(t *testing.T) {
 	// source: numpy.lib.format, _wrap_header: the padding is
 	// 64 − (prefix + len + 1) mod 64 spaces, so a header that would end
-	// exactly on a boundary gets a full 64; version 2.0 (uint32 length) only
-	// when the header does not fit in a uint16.
+	// exactly on a boundary gets a full 64.
 	tests := []struct {
 		reason string
 		shape  []int
@@ -185,6 +184,7 @@ func TestWriteNPYInvalid(t *testing.T) {
 		{"product larger than data", 6, []int{2, 4}},
 		{"negative dimension", 0, []int{-1, 0}},
 		{"overflowing product", 1, []int{math.MaxInt / 2, 3}},
+		{"more than 64 dimensions", 0, make([]int, 65)},
 	}
 	for _, tt := range tests {
 		t.Run(tt.reason, func(t *testing.T) {
