@@ -17,7 +17,7 @@ import (
 // fails, the temporary file is removed, path is left untouched and the error
 // is returned. The new file takes the permission bits of the file it
 // replaces, or 0644 when path did not exist. The directory must exist.
-func AtomicWriteFile(path string, write func(io.Writer) error) (err error) {
+func AtomicWriteFile(path string, write func(io.Writer) error) error {
 	dir, base := filepath.Split(path)
 	if base == "" {
 		return invalidf("cannot write to %q: the path names a directory; give a file name", path)

@@ -4,9 +4,8 @@
 // # Formats
 //
 //   - NPY (NumPy array files; written as format 1.0, read as 1.0 to 3.0):
-//     WriteNPY, ReadNPY, and
-//     WriteNPYSet for a directory of arrays on one grid (x.npy, y.npy,
-//     phi.npy, ex.npy, …), for numpy.load.
+//     WriteNPY, ReadNPY, and WriteNPYSet for a directory of arrays on one
+//     grid (x.npy, y.npy, phi.npy, ex.npy, …), for numpy.load.
 //   - VTK XML RectilinearGrid (.vtr): WriteVTR, for ParaView, VisIt and the
 //     VTK libraries; non-uniform axes are kept.
 //   - CSV tables: WriteCSV and FormatFloat, for spreadsheets and pandas.

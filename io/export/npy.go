@@ -30,14 +30,15 @@ const (
 	// header can be rewritten in place when an array grows (numpy's
 	// GROWTH_AXIS_MAX_DIGITS).
 	npyGrowth = 21
-	// MaxNPYHeader is the largest NPY header ReadNPY accepts, in bytes.
-	// numpy itself refuses headers over 10000 bytes by default.
-	MaxNPYHeader = 1 << 16
 	// npyChunk is the number of elements converted per read or write.
 	npyChunk = 4096
 	// npyMaxDims is the most dimensions an array may have, as in NumPy.
 	npyMaxDims = 64
 )
+
+// MaxNPYHeader is the largest NPY header ReadNPY accepts, in bytes. numpy
+// itself refuses headers over 10000 bytes by default.
+const MaxNPYHeader = 1 << 16
 
 // WriteNPY writes data as a NumPy .npy file (format version 1.0) with
 // element type '<f8' (little-endian float64) in C order. The header is
