@@ -61,6 +61,16 @@ type Map struct {
 	CutX, CutY []float64
 	// Snapped counts the free nodes moved onto a conductor by Options.Snap.
 	Snapped int
+	// Regions are the problem's regions, indexed as in CellRegion.
+	Regions []Region
+	// CellRegion is, for every cell, the index of the region whose
+	// permittivity applies at the cell centre, or −1 for the background.
+	// Cells whose centre lies inside a conductor hold the region beneath it.
+	CellRegion []int32
+	// Surface lists every point where a conductor surface cuts a link
+	// between a free node and a conductor node, with the surface normal
+	// there, in order of the free node.
+	Surface []Crossing
 }
 
 // pointState is the material at one point after applying every region.
@@ -165,6 +175,8 @@ func Rasterize(p *Problem, g *grid.Grid, opt *Options) (*Map, error) {
 		Cond:       make([]int32, g.Len()),
 		Value:      make([]float64, g.Len()),
 		Eps:        make([]float64, g.Cells()),
+		Regions:    append([]Region(nil), p.Regions...),
+		CellRegion: make([]int32, g.Cells()),
 		CutX:       make([]float64, g.Len()),
 		CutY:       make([]float64, g.Len()),
 	}
@@ -180,6 +192,7 @@ func Rasterize(p *Problem, g *grid.Grid, opt *Options) (*Map, error) {
 		r.snap(m, o.Snap)
 	}
 	r.cells(m, states, o.Samples)
+	r.surface(m)
 	r.points(m)
 	for k, c := range p.Conductors {
 		found := false
@@ -482,12 +495,14 @@ func (r *rasterizer) cells(m *Map, states []pointState, samples int) {
 			n0 := j*nx + i
 			s0, s1, s2, s3 := states[n0], states[n0+1], states[n0+nx], states[n0+nx+1]
 			if !mixed[c] && s0 == s1 && s0 == s2 && s0 == s3 {
+				m.CellRegion[c] = s0.epsReg
 				m.Eps[c] = r.eps(s0)
 				if hasRho {
 					m.Rho[c] = r.rho(s0)
 				}
 				continue
 			}
+			m.CellRegion[c] = r.state(0.5*(xs[i]+xs[i+1]), 0.5*(ys[j]+ys[j+1])).epsReg
 			var esum, rsum float64
 			var ne int
 			var under float64
