@@ -493,8 +493,17 @@ func (d *decoder) shape(key string, r *rawRegion) (bc.Shape, error) {
 func (d *decoder) placed(key string, s bc.Shape) error {
 	x0, y0, x1, y1 := s.Bounds()
 	dom := d.p.Domain
-	if d.p.Metric == grid.Axisymmetric && x0 < -1e-12*(dom.X1-dom.X0) {
-		return d.errAt(key, "the shape reaches r = %s < 0; in an axisymmetric model x is the radius, so every shape must lie at r ≥ 0", d.length(x0))
+	// A circle or annulus centred on the axis is a sphere or a spherical
+	// shell; only its centre must lie at r ≥ 0.
+	r0 := x0
+	switch c := s.(type) {
+	case bc.Circle:
+		r0 = c.X
+	case bc.Annulus:
+		r0 = c.X
+	}
+	if d.p.Metric == grid.Axisymmetric && r0 < -1e-12*(dom.X1-dom.X0) {
+		return d.errAt(key, "the shape reaches r = %s < 0; in an axisymmetric model x is the radius, so every shape must lie at r ≥ 0 (a circle may be centred on the axis)", d.length(r0))
 	}
 	if x1 < dom.X0 || x0 > dom.X1 || y1 < dom.Y0 || y0 > dom.Y1 {
 		return d.errAt(key, "the shape, spanning [%g, %g] × [%g, %g] %s, lies entirely outside the domain [%g, %g] × [%g, %g] %s",

@@ -109,7 +109,7 @@ func (d *decoder) overlaps(*rawFile) error {
 				continue
 			}
 			ca, cb := p.Conductors[c], p.Conductors[condOf[pr.b]]
-			return d.errAt(d.m.regionKeys[pr.b], "conductors %q (%s) and %q (%s) overlap near (%g, %g) %s but are at different potentials (%s and %s); separate them or give them one potential",
+			return d.errAt(d.m.regionKeys[pr.b], "conductors %q (%s) and %q (%s) overlap near (%.6g, %.6g) %s but are at different potentials (%s and %s); separate them or give them one potential",
 				ca.Name, d.lineOf(d.m.regionKeys[r]), cb.Name, d.lineOf(d.m.regionKeys[pr.b]),
 				x/d.lunit.Scale, y/d.lunit.Scale, d.lunit.Name, d.describePotential(ca), d.describePotential(cb))
 		}
@@ -125,7 +125,7 @@ func (d *decoder) overlaps(*rawFile) error {
 			if c < 0 || !conflict(c, k) {
 				continue
 			}
-			return d.errAt(d.m.regionKeys[r], "conductor %q (%s) touches the %s side, which belongs to conductor %q (%s), near (%g, %g) %s; move it off the side or give both one potential",
+			return d.errAt(d.m.regionKeys[r], "conductor %q (%s) touches the %s side, which belongs to conductor %q (%s), near (%.6g, %.6g) %s; move it off the side or give both one potential",
 				p.Conductors[c].Name, d.describePotential(p.Conductors[c]), bc.SideNames[s], side.Conductor, d.describePotential(p.Conductors[k]),
 				pt[0]/d.lunit.Scale, pt[1]/d.lunit.Scale, d.lunit.Name)
 		}
@@ -155,29 +155,31 @@ func (d *decoder) hidden(shapes []bc.Shape, condOf []int, stateBefore func(x, y 
 			visible[p.ConductorIndex(s.Conductor)] = true
 		}
 	}
-	lastRegion := make([]int, len(p.Conductors))
-	coverer := make([]int, len(p.Conductors))
+	last := make([]int, len(p.Conductors)) // last region of each conductor
+	nc := 0
+	for _, k := range condOf {
+		if k >= 0 {
+			nc++
+		}
+	}
+	// Sample densely enough to see thin remains, within about 4e6 shape
+	// tests in all.
+	lattice := max(17, min(129, int(math.Sqrt(4e6/float64(nc*len(p.Regions)+1)))))
 	for n, k := range condOf {
 		if k < 0 || visible[k] {
 			continue
 		}
-		lastRegion[k] = n
+		last[k] = n
 		x0, y0, x1, y1 := shapes[n].Bounds()
 		box := [4]float64{math.Max(x0, dom.X0), math.Max(y0, dom.Y0), math.Min(x1, dom.X1), math.Min(y1, dom.Y1)}
-		pts := samples(box, 17, shapes[n])
 		ax, ay := shapes[n].Anchor()
-		pts = append(pts, [2]float64{ax, ay})
-		for _, pt := range pts {
-			if !shapes[n].Contains(pt[0], pt[1]) && (pt[0] != ax || pt[1] != ay) {
+		for _, pt := range append(samples(box, lattice, shapes[n]), [2]float64{ax, ay}) {
+			if !shapes[n].Contains(pt[0], pt[1]) && pt != [2]float64{ax, ay} {
 				continue
 			}
-			c, r := stateBefore(pt[0], pt[1], len(p.Regions))
-			if c == k {
+			if c, _ := stateBefore(pt[0], pt[1], len(p.Regions)); c == k {
 				visible[k] = true
 				break
-			}
-			if pt[0] == ax && pt[1] == ay {
-				coverer[k] = r
 			}
 		}
 	}
@@ -185,12 +187,9 @@ func (d *decoder) hidden(shapes []bc.Shape, condOf []int, stateBefore func(x, y 
 		if visible[k] {
 			continue
 		}
-		n := lastRegion[k]
+		n := last[k]
 		ax, ay := shapes[n].Anchor()
 		by := ""
-		if _, r := stateBefore(ax, ay, len(p.Regions)); r >= 0 || coverer[k] >= 0 {
-			_ = r
-		}
 		for m := len(p.Regions) - 1; m > n; m-- {
 			if shapes[m].Contains(ax, ay) {
 				by = fmt.Sprintf(" (%s covers it)", d.lineOf(d.m.regionKeys[m]))

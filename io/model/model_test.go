@@ -1,0 +1,526 @@
+package model
+
+import (
+	"math"
+	"os"
+	"strings"
+	"testing"
+
+	"github.com/google/go-cmp/cmp"
+	"github.com/google/go-cmp/cmp/cmpopts"
+
+	"github.com/phigrid/phigrid/bc"
+	"github.com/phigrid/phigrid/grid"
+)
+
+// approx compares SI values that went through a unit conversion.
+var approx = cmpopts.EquateApprox(1e-12, 1e-300)
+
+// two plates at y = 0 and y = 10 mm, the usual frame of the small test
+// models below.
+const plates = `
+[units]
+length = "mm"
+
+[domain]
+kind = "planar"
+x = [0, 10]
+y = [0, 10]
+
+[boundary]
+bottom = { kind = "fixed", potential = 0 }
+top = { kind = "fixed", potential = 1 }
+`
+
+func platesProblem() *bc.Problem {
+	p := &bc.Problem{
+		Metric:     grid.Planar,
+		Domain:     bc.Rect{X0: 0, Y0: 0, X1: 0.01, Y1: 0.01},
+		Background: 1,
+	}
+	p.Sides[bc.Bottom] = bc.Side{Kind: bc.Fixed, Potential: 0}
+	p.Sides[bc.Top] = bc.Side{Kind: bc.Fixed, Potential: 1}
+	return p
+}
+
+func TestParseProblems(t *testing.T) {
+	tests := []struct {
+		name   string
+		reason string
+		src    string
+		want   func() *bc.Problem
+	}{
+		{
+			name:   "plates",
+			reason: "the smallest model: two fixed sides, vacuum",
+			src:    plates,
+			want:   platesProblem,
+		},
+		{
+			name:   "every shape in file order",
+			reason: "shapes convert to SI and regions keep file order, whatever their kind",
+			src: plates + `
+[[conductor]]
+name = "c"
+potential = 0.5
+[[region]]
+name = "slab"
+kind = "dielectric"
+eps_r = 4
+rect = { x = [0, 10], y = [0, 2] }
+[[region]]
+kind = "conductor"
+conductor = "c"
+circle = { center = [5, 5], radius = 1 }
+[[region]]
+kind = "dielectric"
+material = "PTFE"
+annulus = { center = [5, 5], inner_radius = 1, outer_radius = 2 }
+[[region]]
+kind = "charge"
+charge_density = 1e-6
+polygon = { points = [[1, 7], [3, 7], [2, 9]] }
+[[region]]
+kind = "conductor"
+conductor = "c"
+strip = { from = [6, 8], to = [9, 8], thickness = 0.1 }
+[[region]]
+kind = "charge"
+charge_density = -2e-6
+eps_r = 3
+[region.rect]
+x = [8, 9]
+y = [2, 3]
+`,
+			want: func() *bc.Problem {
+				p := platesProblem()
+				p.Conductors = []bc.Conductor{{Name: "c", Potential: 0.5}}
+				p.Regions = []bc.Region{
+					{Name: "slab", Kind: bc.Dielectric, EpsR: 4, Shape: bc.Rect{X0: 0, Y0: 0, X1: 0.01, Y1: 0.002}},
+					{Kind: bc.ConductorRegion, Conductor: "c", Shape: bc.Circle{X: 0.005, Y: 0.005, R: 0.001}},
+					{Kind: bc.Dielectric, EpsR: 2.1, Shape: bc.Annulus{X: 0.005, Y: 0.005, R0: 0.001, R1: 0.002}},
+					{Kind: bc.Charge, Rho: 1e-6, Shape: bc.Polygon{X: []float64{0.001, 0.003, 0.002}, Y: []float64{0.007, 0.007, 0.009}}},
+					{Kind: bc.ConductorRegion, Conductor: "c", Shape: bc.Strip{X0: 0.006, Y0: 0.008, X1: 0.009, Y1: 0.008, Thickness: 1e-4}},
+					{Kind: bc.Charge, Rho: -2e-6, EpsR: 3, Shape: bc.Rect{X0: 0.008, Y0: 0.002, X1: 0.009, Y1: 0.003}},
+				}
+				return p
+			},
+		},
+		{
+			name:   "kilovolts and a floating conductor",
+			reason: "potentials scale by the potential unit; a floating conductor keeps its charge in SI",
+			src: `
+[units]
+length = "m"
+potential = "kV"
+[domain]
+kind = "planar"
+x = [-1, 1]
+y = [-1, 1]
+[[conductor]]
+name = "hv"
+potential = 12.5
+[[conductor]]
+name = "island"
+floating = true
+charge = -3e-9
+[[region]]
+kind = "conductor"
+conductor = "hv"
+circle = { center = [0, 0], radius = 0.1 }
+[[region]]
+kind = "conductor"
+conductor = "island"
+circle = { center = [0.5, 0], radius = 0.1 }
+[boundary]
+left = { kind = "fixed", potential = -1 }
+right = { kind = "fixed", conductor = "hv" }
+`,
+			want: func() *bc.Problem {
+				p := &bc.Problem{Metric: grid.Planar, Domain: bc.Rect{X0: -1, Y0: -1, X1: 1, Y1: 1}, Background: 1}
+				p.Conductors = []bc.Conductor{{Name: "hv", Potential: 12500}, {Name: "island", Floating: true, Charge: -3e-9}}
+				p.Regions = []bc.Region{
+					{Kind: bc.ConductorRegion, Conductor: "hv", Shape: bc.Circle{R: 0.1}},
+					{Kind: bc.ConductorRegion, Conductor: "island", Shape: bc.Circle{X: 0.5, R: 0.1}},
+				}
+				p.Sides[bc.Left] = bc.Side{Kind: bc.Fixed, Potential: -1000}
+				p.Sides[bc.Right] = bc.Side{Kind: bc.Fixed, Conductor: "hv"}
+				return p
+			},
+		},
+		{
+			name:   "axisymmetric with a ring charge",
+			reason: "x is r; ring charges only in r–z; background by eps_r",
+			src: `
+[units]
+length = "cm"
+[domain]
+kind = "axisymmetric"
+x = [0, 5]
+y = [-5, 5]
+eps_r = 2.2
+[[conductor]]
+name = "ball"
+potential = 1
+[[region]]
+kind = "conductor"
+conductor = "ball"
+circle = { center = [0, 0], radius = 1 }
+[[ring_charge]]
+name = "ring"
+at = [2, 1]
+charge = 1e-12
+[boundary]
+right = { kind = "fixed", potential = 0 }
+`,
+			want: func() *bc.Problem {
+				p := &bc.Problem{Metric: grid.Axisymmetric, Domain: bc.Rect{X0: 0, Y0: -0.05, X1: 0.05, Y1: 0.05}, Background: 2.2}
+				p.Conductors = []bc.Conductor{{Name: "ball", Potential: 1}}
+				p.Regions = []bc.Region{{Kind: bc.ConductorRegion, Conductor: "ball", Shape: bc.Circle{R: 0.01}}}
+				p.Charges = []bc.PointCharge{{Name: "ring", X: 0.02, Y: 0.01, Q: 1e-12}}
+				p.Sides[bc.Right] = bc.Side{Kind: bc.Fixed, Potential: 0}
+				return p
+			},
+		},
+		{
+			name:   "inline array of regions, own and built-in materials",
+			reason: "region = [...] is the same as [[region]]; material names ignore case and punctuation; a file's material overrides a built-in",
+			src: `region = [
+  { kind = "dielectric", material = "fr4", rect = { x = [0, 1], y = [0, 1] } },
+  { kind = "dielectric", material = "Transformer Oil", rect = { x = [0, 1], y = [1, 2] } },
+]
+[units]
+length = "in"
+[domain]
+kind = "planar"
+x = [0, 1]
+y = [0, 2]
+material = "my_resin"
+[materials]
+"FR-4" = 4.6
+"My Resin" = 3.3
+[[line_charge]]
+at = [0.5, 0.5]
+charge = 2e-10
+[boundary]
+top = { kind = "fixed", potential = 0 }
+`,
+			want: func() *bc.Problem {
+				p := &bc.Problem{Metric: grid.Planar, Domain: bc.Rect{X1: 0.0254, Y1: 0.0508}, Background: 3.3}
+				p.Regions = []bc.Region{
+					{Kind: bc.Dielectric, EpsR: 4.6, Shape: bc.Rect{X1: 0.0254, Y1: 0.0254}},
+					{Kind: bc.Dielectric, EpsR: 2.2, Shape: bc.Rect{Y0: 0.0254, X1: 0.0254, Y1: 0.0508}},
+				}
+				p.Charges = []bc.PointCharge{{X: 0.0127, Y: 0.0127, Q: 2e-10}}
+				p.Sides[bc.Top] = bc.Side{Kind: bc.Fixed}
+				return p
+			},
+		},
+		{
+			name:   "CRLF line ends and a byte-order mark",
+			reason: "files saved by Windows editors parse the same",
+			src:    "\uFEFF" + strings.ReplaceAll(plates, "\n", "\r\n"),
+			want:   platesProblem,
+		},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			m, err := Parse(tt.name+".toml", []byte(tt.src))
+			if err != nil {
+				t.Fatalf("%s: %v", tt.reason, err)
+			}
+			if diff := cmp.Diff(tt.want(), m.Problem, approx, cmpopts.EquateEmpty()); diff != "" {
+				t.Errorf("%s: problem mismatch (-want +got):\n%s", tt.reason, diff)
+			}
+		})
+	}
+}
+
+func TestParseSettings(t *testing.T) {
+	m, err := Parse("plates.toml", []byte(plates))
+	if err != nil {
+		t.Fatal(err)
+	}
+	got := struct {
+		Unit, PotentialUnit Unit
+		Mesh                bc.Mesh
+		Solver              Solver
+		Outputs             Outputs
+	}{m.Unit, m.PotentialUnit, m.Mesh, m.Solver, m.Outputs}
+	want := got
+	want.Unit = Unit{"mm", 1e-3}
+	want.PotentialUnit = Unit{"V", 1}
+	want.Mesh = bc.Mesh{Cell: 0.01 / DefaultCells, Refine: 4, Ratio: 1.2, MaxNodes: bc.DefaultMaxNodes}
+	want.Solver = Solver{Method: "mg-pcg", Tol: 1e-10}
+	want.Outputs = Outputs{Report: true}
+	if diff := cmp.Diff(want, got, approx, cmpopts.EquateEmpty()); diff != "" {
+		t.Errorf("defaults (-want +got):\n%s", diff)
+	}
+	if string(m.Source) != plates || m.Name != "plates.toml" {
+		t.Errorf("model keeps name %q and %d bytes of source, want the input", m.Name, len(m.Source))
+	}
+}
+
+func TestParseFull(t *testing.T) {
+	m, err := Load("testdata/full.toml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	wantOut := Outputs{
+		Dir: "traces-out", Report: true, CSV: true, VTK: true, Archive: true,
+		Pictures: []Picture{
+			{Kind: PotentialMap, File: "potential.png", Width: 1200, Height: 500, Contours: 20},
+			{Kind: FieldMap, File: "field.png"},
+			{Kind: FieldArrows, File: "arrows.svg", ArrowLength: ArrowsLog, Arrows: 40},
+			{Kind: FieldLines, File: "lines.svg", Lines: 24, From: []string{"signal"}},
+		},
+		Probes: []Probe{{Name: "above trace", X: -0.001, Y: 0.0025}},
+		Cuts:   []Cut{{Name: "vertical", X0: -0.001, X1: -0.001, Y1: 0.008, Samples: 161}},
+	}
+	if diff := cmp.Diff(wantOut, m.Outputs, approx, cmpopts.EquateEmpty()); diff != "" {
+		t.Errorf("outputs (-want +got):\n%s", diff)
+	}
+	wantMesh := bc.Mesh{Cell: 0.25e-3, Refine: 8, Ratio: 1.2, MaxNodes: 2000000}
+	if diff := cmp.Diff(wantMesh, m.Mesh, approx); diff != "" {
+		t.Errorf("mesh (-want +got):\n%s", diff)
+	}
+	if want := (Solver{Method: "mg-pcg", Tol: 1e-10, MaxIter: 200}); m.Solver != want {
+		t.Errorf("solver %+v, want %+v", m.Solver, want)
+	}
+	if m.Title != "Coupled traces in a shielded box" || m.Description != "The example of the model-file manual." {
+		t.Errorf("title %q, description %q", m.Title, m.Description)
+	}
+	var used []string
+	for _, mat := range m.Materials {
+		used = append(used, mat.Name)
+	}
+	if diff := cmp.Diff([]string{"air", "FR-4", "solder mask"}, used); diff != "" {
+		t.Errorf("materials used (-want +got):\n%s", diff)
+	}
+	if diff := cmp.Diff([]string{"FR-4", "solder mask", "", "", "", "", ""}, m.RegionMaterial); diff != "" {
+		t.Errorf("region materials (-want +got):\n%s", diff)
+	}
+	if n := len(m.Problem.Regions); n != 7 {
+		t.Fatalf("%d regions, want 7", n)
+	}
+	g, err := m.Grid()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := bc.Rasterize(m.Problem, g, nil); err != nil {
+		t.Errorf("the manual's example does not rasterise: %v", err)
+	}
+}
+
+// TestManualExample keeps the complete example of the package manual and
+// testdata/full.toml identical, so the manual shows a model that parses.
+func TestManualExample(t *testing.T) {
+	doc, err := os.ReadFile("doc.go")
+	if err != nil {
+		t.Fatal(err)
+	}
+	file, err := os.ReadFile("testdata/full.toml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	lines := strings.Split(string(doc), "\n")
+	start := -1
+	for i, l := range lines {
+		if l == "// # Complete example" {
+			start = i
+		}
+	}
+	if start < 0 {
+		t.Fatal("doc.go has no section # Complete example")
+	}
+	var block []string
+	for _, l := range lines[start+1:] {
+		if strings.HasPrefix(l, "// # ") {
+			break
+		}
+		switch {
+		case strings.HasPrefix(l, "//\t"):
+			block = append(block, l[3:])
+		case l == "//" && len(block) > 0:
+			block = append(block, "")
+		}
+	}
+	got := strings.TrimRight(strings.Join(block, "\n"), "\n") + "\n"
+	if diff := cmp.Diff(string(file), got); diff != "" {
+		t.Errorf("doc.go's example and testdata/full.toml differ (-file +doc):\n%s", diff)
+	}
+}
+
+// TestCoaxExample parses the shipped coax example and rasterises it. The
+// check value of the example is C' = 2π ε0 / ln 3 = 50.638886 pF/m.
+func TestCoaxExample(t *testing.T) {
+	m, err := Load("../../examples/coax/coax.toml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := &bc.Problem{
+		Metric:     grid.Planar,
+		Domain:     bc.Rect{X0: -0.0035, Y0: -0.0035, X1: 0.0035, Y1: 0.0035},
+		Background: 1,
+		Conductors: []bc.Conductor{{Name: "inner", Potential: 1}, {Name: "outer", Potential: 0}},
+		Regions: []bc.Region{
+			{Name: "shield", Kind: bc.ConductorRegion, Conductor: "outer", Shape: bc.Annulus{R0: 0.003, R1: 0.005}},
+			{Name: "centre", Kind: bc.ConductorRegion, Conductor: "inner", Shape: bc.Circle{R: 0.001}},
+		},
+	}
+	if diff := cmp.Diff(want, m.Problem, approx, cmpopts.EquateEmpty()); diff != "" {
+		t.Errorf("coax problem (-want +got):\n%s", diff)
+	}
+	g, err := m.Grid()
+	if err != nil {
+		t.Fatal(err)
+	}
+	mp, err := bc.Rasterize(m.Problem, g, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Every node at r ≤ a belongs to the inner conductor, every node at
+	// r ≥ b to the outer one, and the gap between is free.
+	const a, b = 1e-3, 3e-3
+	xs, ys := g.X(), g.Y()
+	for j, y := range ys {
+		for i, x := range xs {
+			r := math.Hypot(x, y)
+			n := g.Index(i, j)
+			switch {
+			case r < a*0.999 && mp.Cond[n] != 0:
+				t.Fatalf("node (%g, %g) inside the inner conductor has conductor %d", x, y, mp.Cond[n])
+			case r > b*1.001 && mp.Cond[n] != 1:
+				t.Fatalf("node (%g, %g) inside the outer conductor has conductor %d", x, y, mp.Cond[n])
+			case r > a*1.1 && r < b*0.9 && mp.Kind[n] != bc.Free:
+				t.Fatalf("node (%g, %g) in the gap is %v, want free", x, y, mp.Kind[n])
+			}
+		}
+	}
+}
+
+func TestLengthUnits(t *testing.T) {
+	for _, tt := range []struct {
+		unit  string
+		scale float64
+	}{
+		{"m", 1},
+		{"cm", 0.01},
+		{"mm", 1e-3},
+		{"um", 1e-6},
+		{"\u00b5m", 1e-6}, // micro sign
+		{"\u03bcm", 1e-6}, // Greek mu
+		{"in", 0.0254},     // exact by definition
+		{"mil", 25.4e-6},   // exact by definition
+	} {
+		src := strings.Replace(plates, `length = "mm"`, `length = "`+tt.unit+`"`, 1)
+		m, err := Parse("units.toml", []byte(src))
+		if err != nil {
+			t.Errorf("unit %q: %v", tt.unit, err)
+			continue
+		}
+		if got := m.Problem.Domain.X1; math.Abs(got-10*tt.scale) > 1e-12*tt.scale {
+			t.Errorf("unit %q: x1 = 10 units is %g m, want %g m", tt.unit, got, 10*tt.scale)
+		}
+		if m.Unit.Name != tt.unit || m.Unit.Scale != tt.scale {
+			t.Errorf("unit %q: Model.Unit = %+v", tt.unit, m.Unit)
+		}
+	}
+}
+
+func TestMaterials(t *testing.T) {
+	ms := Materials()
+	keys := map[string]bool{}
+	for _, m := range ms {
+		if !(m.EpsR >= 1) || m.Note == "" || m.Name == "" {
+			t.Errorf("built-in material %+v needs a name, a note and eps_r ≥ 1", m)
+		}
+		if keys[materialKey(m.Name)] {
+			t.Errorf("built-in material %q appears twice", m.Name)
+		}
+		keys[materialKey(m.Name)] = true
+	}
+	ms[0].EpsR = 99
+	if Materials()[0].EpsR == 99 {
+		t.Error("Materials returns the package's own table, not a copy")
+	}
+	tab := newMaterialTable()
+	for _, tt := range []struct {
+		name string
+		want float64
+	}{
+		{"PTFE", 2.1},            // common practice
+		{"ptfe", 2.1},            // common practice
+		{"fr4", 4.4},             // common practice
+		{"Fr_4", 4.4},            // common practice
+		{"transformer oil", 2.2}, // common practice
+		{"alumina", 9.8},         // common practice
+		{"vacuum", 1},            // exact
+		{"sf6", 1.002},           // common practice (from memory)
+	} {
+		m, ok := tab.lookup(tt.name)
+		if !ok || m.EpsR != tt.want {
+			t.Errorf("material %q: got %v (found %v), want eps_r %g", tt.name, m.EpsR, ok, tt.want)
+		}
+	}
+}
+
+func TestParseMemTotal(t *testing.T) {
+	for _, tt := range []struct {
+		in   string
+		want uint64
+	}{
+		{"MemTotal:       24684084 kB\nMemFree: 1 kB\n", 24684084 * 1024},
+		{"MemFree: 1 kB\nMemTotal: 2048\n", 2048},
+		{"MemFree: 1 kB\n", 0},
+		{"MemTotal: lots kB\n", 0},
+	} {
+		if got := parseMemTotal([]byte(tt.in)); got != tt.want {
+			t.Errorf("parseMemTotal(%q) = %d, want %d", tt.in, got, tt.want)
+		}
+	}
+}
+
+func TestIndex(t *testing.T) {
+	src := []byte(`a = 1
+[t]
+b = { c = [1, { d = 2 }] }
+[[arr]]
+x = 1
+[[arr]]
+[arr.sub]
+y = 2
+[[arr.list]]
+z = 3
+`)
+	ix := buildIndex(src)
+	for _, tt := range []struct {
+		path string
+		want pos
+	}{
+		{"a", pos{1, 1}},
+		{"t", pos{2, 2}},
+		{"t.b", pos{3, 1}},
+		{"t.b.c", pos{3, 7}},
+		{"t.b.c[1]", pos{3, 12}},
+		{"t.b.c[2].d", pos{3, 17}},
+		{"arr[1]", pos{4, 3}},
+		{"arr[1].x", pos{5, 1}},
+		{"arr[2]", pos{6, 3}},
+		{"arr[2].sub", pos{7, 2}},
+		{"arr[2].sub.y", pos{8, 1}},
+		{"arr[2].list[1].z", pos{10, 1}},
+		{"arr[2].missing", pos{6, 3}}, // falls back to the table
+		{"nothing", pos{}},
+	} {
+		if got := ix.find(tt.path); got != tt.want {
+			t.Errorf("find(%q) = %v, want %v", tt.path, got, tt.want)
+		}
+	}
+	if got := ix.near(pos{3, 20}); got != "t.b.c[2].d" {
+		t.Errorf("near(3:20) = %q, want t.b.c[2].d", got)
+	}
+	if ix.has("arr[3]") || !ix.has("arr[2].list") {
+		t.Error("has reports arrays wrongly")
+	}
+}
