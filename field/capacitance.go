@@ -24,6 +24,12 @@ func CapacitanceMatrix(ctx context.Context, sys *solve.System, set *solve.Settin
 	return capacitance(ctx, sys, s)
 }
 
+// CapacitanceMatrixWith is CapacitanceMatrix with a solver already set up
+// for sys, so that the potential solve and the matrix share one set-up.
+func CapacitanceMatrixWith(ctx context.Context, sys *solve.System, s solve.Solver) ([][]float64, []*solve.Result, error) {
+	return capacitance(ctx, sys, s)
+}
+
 func capacitance(ctx context.Context, sys *solve.System, s solve.Solver) ([][]float64, []*solve.Result, error) {
 	n := sys.Conductors()
 	c := make([][]float64, n)
