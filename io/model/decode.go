@@ -493,17 +493,32 @@ func (d *decoder) shape(key string, r *rawRegion) (bc.Shape, error) {
 func (d *decoder) placed(key string, s bc.Shape) error {
 	x0, y0, x1, y1 := s.Bounds()
 	dom := d.p.Domain
-	// A circle or annulus centred on the axis is a sphere or a spherical
-	// shell; only its centre must lie at r ≥ 0.
-	r0 := x0
-	switch c := s.(type) {
-	case bc.Circle:
-		r0 = c.X
-	case bc.Annulus:
-		r0 = c.X
-	}
-	if d.p.Metric == grid.Axisymmetric && r0 < -1e-12*(dom.X1-dom.X0) {
-		return d.errAt(key, "the shape reaches r = %s < 0; in an axisymmetric model x is the radius, so every shape must lie at r ≥ 0 (a circle may be centred on the axis)", d.length(r0))
+	if d.p.Metric == grid.Axisymmetric {
+		// The rule of bc.Problem.Validate: a circle or annulus needs its
+		// centre at r ≥ 0 (centred on the axis it is a sphere or a
+		// spherical shell), a strip its centre line, any other shape all
+		// of itself.
+		tol := -1e-12 * (dom.X1 - dom.X0)
+		switch c := s.(type) {
+		case bc.Circle, bc.Annulus:
+			cx := 0.0
+			if a, ok := c.(bc.Annulus); ok {
+				cx = a.X
+			} else {
+				cx = c.(bc.Circle).X
+			}
+			if cx < tol {
+				return d.errAt(key, "the shape is centred at r = %s < 0; in an axisymmetric model x is the radius, so a circle or annulus must be centred at r ≥ 0 (on the axis it is a sphere)", d.length(cx))
+			}
+		case bc.Strip:
+			if r0 := math.Min(c.X0, c.X1); r0 < tol {
+				return d.errAt(key, "the strip reaches r = %s < 0; in an axisymmetric model x is the radius, so its centre line must lie at r ≥ 0", d.length(r0))
+			}
+		default:
+			if x0 < tol {
+				return d.errAt(key, "the shape reaches r = %s < 0; in an axisymmetric model x is the radius, so the shape must lie at r ≥ 0: draw only the half at r ≥ 0", d.length(x0))
+			}
+		}
 	}
 	if x1 < dom.X0 || x0 > dom.X1 || y1 < dom.Y0 || y0 > dom.Y1 {
 		return d.errAt(key, "the shape, spanning [%g, %g] × [%g, %g] %s, lies entirely outside the domain [%g, %g] × [%g, %g] %s",

@@ -207,7 +207,10 @@
 // A planar domain is a cross-section; capacitances and charges are per
 // metre of depth. In an axisymmetric domain x is the radius r and y the
 // axial coordinate z; the domain must lie at r ≥ 0 and usually starts at
-// the axis, x0 = 0.
+// the axis, x0 = 0. Shapes are drawn in the r–z half-plane only: a rect or
+// polygon must lie at r ≥ 0, a strip's centre line too, and a circle or
+// annulus must be centred at r ≥ 0 (centred on the axis it is a sphere or
+// spherical shell; what falls at r < 0 is ignored).
 //
 // # [materials]
 //

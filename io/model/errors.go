@@ -89,7 +89,7 @@ func (d *decoder) missing(table, key, what string) *Error {
 	where := table
 	if table == "" {
 		where = "the top level"
-	} else if !strings.HasSuffix(table, "]") {
+	} else if !strings.Contains(table, "[") {
 		where = "[" + table + "]"
 	}
 	return &Error{File: d.name, Line: p.line, Column: p.col, Key: full, Err: ErrSchema,

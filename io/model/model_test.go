@@ -410,8 +410,8 @@ func TestLengthUnits(t *testing.T) {
 		{"um", 1e-6},
 		{"\u00b5m", 1e-6}, // micro sign
 		{"\u03bcm", 1e-6}, // Greek mu
-		{"in", 0.0254},     // exact by definition
-		{"mil", 25.4e-6},   // exact by definition
+		{"in", 0.0254},    // exact by definition
+		{"mil", 25.4e-6},  // exact by definition
 	} {
 		src := strings.Replace(plates, `length = "mm"`, `length = "`+tt.unit+`"`, 1)
 		m, err := Parse("units.toml", []byte(src))
