@@ -1,0 +1,362 @@
+package solve
+
+// Stencil positions of a nine-point row as filled by mgLevel.row: the
+// entry A(n, n+d) for the neighbour d.
+const (
+	sSW = iota
+	sS
+	sSE
+	sW
+	sC
+	sE
+	sNW
+	sN
+	sNE
+)
+
+// Interpolation weights kept per coarse point (I, J), in the order of
+// mgLevel.interp: the x-edge point (2I+1, 2J) from its west and east coarse
+// points, the y-edge point (2I, 2J+1) from its south and north ones, and
+// the cell centre (2I+1, 2J+1) from its four corners.
+const (
+	pXW = iota
+	pXE
+	pYS
+	pYN
+	pSW
+	pSE
+	pNW
+	pNE
+	pLen
+)
+
+// coarseLevel is a level below the finest: a symmetric nine-point operator
+// on an nx×ny grid, stored with a one-node halo of zeros so that no kernel
+// needs a bounds test. Index (i, j) is (j+1)·st + i + 1 with st = nx + 2.
+//
+// Only five entries per row are stored; the other four follow from
+// symmetry: A(n, n+1) = w[n+1], A(n, n+st) = s[n+st], A(n, n+st+1) =
+// sw[n+st+1] and A(n, n+st−1) = se[n+st−1].
+type coarseLevel struct {
+	nx, ny, st int
+	// c, w, s, sw, se are A(n,n), A(n,n−1), A(n,n−st), A(n,n−st−1) and
+	// A(n,n−st+1).
+	c, w, s, sw, se []float64
+	fixed           []bool
+	// x, b and r are the level's correction, right-hand side and residual.
+	x, b, r []float64
+	// p holds pLen interpolation weights per point of the next coarser
+	// level (compact index I + ncx·J); nil on the coarsest level.
+	p        []float64
+	ncx, ncy int
+
+	smoother Smoother
+	blocks   int
+	run      func(n int, fn func(lo, hi int))
+
+	// Operands and prebuilt closures of the parallel kernels.
+	opX, opB, opR []float64
+	cx, cb        []float64
+	color         int
+
+	smoothFn, residualFn, restrictFn, prolongFn, lineFn func(lo, hi int)
+}
+
+func newCoarseLevel(nx, ny int) *coarseLevel {
+	st := nx + 2
+	n := st * (ny + 2)
+	l := &coarseLevel{nx: nx, ny: ny, st: st}
+	l.c = make([]float64, n)
+	l.w = make([]float64, n)
+	l.s = make([]float64, n)
+	l.sw = make([]float64, n)
+	l.se = make([]float64, n)
+	l.fixed = make([]bool, n)
+	l.x = make([]float64, n)
+	l.b = make([]float64, n)
+	l.r = make([]float64, n)
+	l.blocks = min(64, ny)
+	l.smoothFn = l.smoothBlocks
+	l.residualFn = l.residualBlocks
+	l.restrictFn = l.restrictBlocks
+	l.prolongFn = l.prolongBlocks
+	return l
+}
+
+// idx returns the padded index of node (i, j).
+func (l *coarseLevel) idx(i, j int) int { return (j+1)*l.st + i + 1 }
+
+func (l *coarseLevel) dims() (int, int) { return l.nx, l.ny }
+
+func (l *coarseLevel) isFixed(i, j int) bool { return l.fixed[l.idx(i, j)] }
+
+// row fills a with row (i, j) of the operator.
+func (l *coarseLevel) row(i, j int, a *[9]float64) {
+	n, st := l.idx(i, j), l.st
+	a[sC] = l.c[n]
+	a[sW] = l.w[n]
+	a[sE] = l.w[n+1]
+	a[sS] = l.s[n]
+	a[sN] = l.s[n+st]
+	a[sSW] = l.sw[n]
+	a[sSE] = l.se[n]
+	a[sNE] = l.sw[n+st+1]
+	a[sNW] = l.se[n+st-1]
+}
+
+// interp fills w with the interpolation weights kept at coarse point
+// (I, J) of the next coarser level.
+func (l *coarseLevel) interp(I, J int, w *[pLen]float64) {
+	k := (I + l.ncx*J) * pLen
+	copy(w[:], l.p[k:k+pLen])
+}
+
+// pinFixed makes the rows and columns of fixed nodes identity rows.
+func (l *coarseLevel) pinFixed() {
+	st := l.st
+	for j := 0; j < l.ny; j++ {
+		for i := 0; i < l.nx; i++ {
+			n := l.idx(i, j)
+			if !l.fixed[n] {
+				continue
+			}
+			l.c[n] = 1
+			l.w[n], l.s[n], l.sw[n], l.se[n] = 0, 0, 0, 0
+			l.w[n+1], l.s[n+st], l.sw[n+st+1], l.se[n+st-1] = 0, 0, 0, 0
+		}
+	}
+}
+
+func (l *coarseLevel) rows(b int) (int, int) { return b * l.ny / l.blocks, (b + 1) * l.ny / l.blocks }
+
+// smooth relaxes A·x = b in place: one symmetric step is pre (forward) or
+// post (the reverse order), so that the V-cycle is symmetric. With zero set
+// x is taken as zero on entry.
+func (l *coarseLevel) smooth(x, b []float64, zero, post bool) {
+	if zero {
+		clear(x)
+	}
+	l.opX, l.opB = x, b
+	switch l.smoother {
+	case LineX, LineY, LineXY:
+		l.smoothLines(post)
+		return
+	}
+	for c := 0; c < 4; c++ {
+		l.color = c
+		if post {
+			l.color = 3 - c
+		}
+		l.run(l.blocks, l.smoothFn)
+	}
+}
+
+// smoothBlocks is one colour of four-colour Gauss–Seidel: nodes (i, j)
+// with i ≡ color&1 and j ≡ color>>1 (mod 2). Nodes of one colour do not
+// couple in a nine-point stencil, so the colour's rows are independent.
+func (l *coarseLevel) smoothBlocks(lo, hi int) {
+	st := l.st
+	x, b := l.opX, l.opB
+	c, w, s, sw, se := l.c, l.w, l.s, l.sw, l.se
+	pi, pj := l.color&1, l.color>>1
+	for blk := lo; blk < hi; blk++ {
+		j0, j1 := l.rows(blk)
+		for j := j0; j < j1; j++ {
+			if j&1 != pj {
+				continue
+			}
+			o := (j+1)*st + 1
+			for i := pi; i < l.nx; i += 2 {
+				n := o + i
+				v := b[n] - w[n]*x[n-1] - w[n+1]*x[n+1] - s[n]*x[n-st] - s[n+st]*x[n+st] -
+					sw[n]*x[n-st-1] - se[n]*x[n-st+1] - sw[n+st+1]*x[n+st+1] - se[n+st-1]*x[n+st-1]
+				x[n] = v / c[n]
+			}
+		}
+	}
+}
+
+// residual computes r = b − A·x.
+func (l *coarseLevel) residual(r, x, b []float64) {
+	l.opR, l.opX, l.opB = r, x, b
+	l.run(l.blocks, l.residualFn)
+}
+
+func (l *coarseLevel) residualBlocks(lo, hi int) {
+	st := l.st
+	x, b, r := l.opX, l.opB, l.opR
+	c, w, s, sw, se := l.c, l.w, l.s, l.sw, l.se
+	for blk := lo; blk < hi; blk++ {
+		j0, j1 := l.rows(blk)
+		for j := j0; j < j1; j++ {
+			o := (j+1)*st + 1
+			for i := 0; i < l.nx; i++ {
+				n := o + i
+				r[n] = b[n] - c[n]*x[n] - w[n]*x[n-1] - w[n+1]*x[n+1] - s[n]*x[n-st] - s[n+st]*x[n+st] -
+					sw[n]*x[n-st-1] - se[n]*x[n-st+1] - sw[n+st+1]*x[n+st+1] - se[n+st-1]*x[n+st-1]
+			}
+		}
+	}
+}
+
+// restrict writes Pᵀ·r into the padded coarse vector dst (the next
+// level's layout, stride ncx+2).
+func (l *coarseLevel) restrict(dst, r []float64) {
+	l.cb, l.opR = dst, r
+	l.run(min(64, l.ncy), l.restrictFn)
+}
+
+func (l *coarseLevel) restrictBlocks(lo, hi int) {
+	st, cst := l.st, l.ncx+2
+	blocks := min(64, l.ncy)
+	r, p, dst := l.opR, l.p, l.cb
+	ncx := l.ncx
+	for blk := lo; blk < hi; blk++ {
+		J0, J1 := blk*l.ncy/blocks, (blk+1)*l.ncy/blocks
+		for J := J0; J < J1; J++ {
+			for I := 0; I < ncx; I++ {
+				q := (2*J+1)*st + 2*I + 1
+				k := (I + ncx*J) * pLen
+				v := r[q] + p[k+pXW]*r[q+1] + p[k+pYS]*r[q+st] + p[k+pSW]*r[q+st+1]
+				if I > 0 {
+					kw := k - pLen
+					v += p[kw+pXE]*r[q-1] + p[kw+pSE]*r[q+st-1]
+				}
+				if J > 0 {
+					ks := k - ncx*pLen
+					v += p[ks+pYN]*r[q-st] + p[ks+pNW]*r[q-st+1]
+					if I > 0 {
+						v += p[ks-pLen+pNE] * r[q-st-1]
+					}
+				}
+				dst[(J+1)*cst+I+1] = v
+			}
+		}
+	}
+}
+
+// prolong adds P·xc to x, where xc is in the next level's padded layout.
+func (l *coarseLevel) prolong(x, xc []float64) {
+	l.opX, l.cx = x, xc
+	l.run(min(64, l.ncy), l.prolongFn)
+}
+
+func (l *coarseLevel) prolongBlocks(lo, hi int) {
+	st, cst := l.st, l.ncx+2
+	blocks := min(64, l.ncy)
+	x, p, xc := l.opX, l.p, l.cx
+	ncx := l.ncx
+	for blk := lo; blk < hi; blk++ {
+		J0, J1 := blk*l.ncy/blocks, (blk+1)*l.ncy/blocks
+		for J := J0; J < J1; J++ {
+			hasN := 2*J+1 < l.ny
+			for I := 0; I < ncx; I++ {
+				q := (2*J+1)*st + 2*I + 1
+				k := (I + ncx*J) * pLen
+				cn := (J+1)*cst + I + 1
+				v, ve, vn, vne := xc[cn], xc[cn+1], xc[cn+cst], xc[cn+cst+1]
+				x[q] += v
+				hasE := 2*I+1 < l.nx
+				if hasE {
+					x[q+1] += p[k+pXW]*v + p[k+pXE]*ve
+				}
+				if hasN {
+					x[q+st] += p[k+pYS]*v + p[k+pYN]*vn
+					if hasE {
+						x[q+st+1] += p[k+pSW]*v + p[k+pSE]*ve + p[k+pNW]*vn + p[k+pNE]*vne
+					}
+				}
+			}
+		}
+	}
+}
+
+// computeWeights fills p with operator-dependent interpolation weights
+// from the next coarser level (ncx × ncy points at the even nodes).
+//
+// An edge point between two coarse points takes the weights of its own
+// row collapsed across the edge (the stencil's three columns, or rows, are
+// lumped onto the line through the two coarse points), as in the
+// black-box multigrid of Alcouffe, Brandt, Dendy and Painter; a cell centre
+// solves its own homogeneous equation given its corners and the already
+// interpolated edge points. Weights from fixed coarse points and into fixed
+// nodes are zero, so corrections vanish on conductors.
+func (l *coarseLevel) computeWeights() {
+	ncx, ncy := l.ncx, l.ncy
+	l.p = make([]float64, pLen*ncx*ncy)
+	var a [9]float64
+	for J := 0; J < ncy; J++ {
+		for I := 0; I < ncx; I++ {
+			k := (I + ncx*J) * pLen
+			i, j := 2*I, 2*J
+			if i+1 < l.nx && !l.isFixed(i+1, j) {
+				l.row(i+1, j, &a)
+				wW, wE := edgeWeights(a[sSW]+a[sW]+a[sNW], a[sSE]+a[sE]+a[sNE], a[sS]+a[sC]+a[sN], a[sC])
+				if l.isFixed(i, j) {
+					wW = 0
+				}
+				if i+2 >= l.nx || l.isFixed(i+2, j) {
+					wE = 0
+				}
+				l.p[k+pXW], l.p[k+pXE] = wW, wE
+			}
+			if j+1 < l.ny && !l.isFixed(i, j+1) {
+				l.row(i, j+1, &a)
+				wS, wN := edgeWeights(a[sSW]+a[sS]+a[sSE], a[sNW]+a[sN]+a[sNE], a[sW]+a[sC]+a[sE], a[sC])
+				if l.isFixed(i, j) {
+					wS = 0
+				}
+				if j+2 >= l.ny || l.isFixed(i, j+2) {
+					wN = 0
+				}
+				l.p[k+pYS], l.p[k+pYN] = wS, wN
+			}
+		}
+	}
+	for J := 0; J < ncy; J++ {
+		for I := 0; I < ncx; I++ {
+			i, j := 2*I, 2*J
+			if i+1 >= l.nx || j+1 >= l.ny || l.isFixed(i+1, j+1) {
+				continue
+			}
+			k := (I + ncx*J) * pLen
+			l.row(i+1, j+1, &a)
+			// Edge weights of the centre's four neighbours.
+			yW := l.p[k+pYS : k+pYN+1]
+			xS := l.p[k+pXW : k+pXE+1]
+			var yE, xN [2]float64
+			if I+1 < ncx {
+				ke := k + pLen
+				yE = [2]float64{l.p[ke+pYS], l.p[ke+pYN]}
+			}
+			if J+1 < ncy {
+				kn := k + ncx*pLen
+				xN = [2]float64{l.p[kn+pXW], l.p[kn+pXE]}
+			}
+			var m [4]float64
+			m[0] = a[sSW] + a[sW]*yW[0] + a[sS]*xS[0]
+			m[1] = a[sSE] + a[sE]*yE[0] + a[sS]*xS[1]
+			m[2] = a[sNW] + a[sW]*yW[1] + a[sN]*xN[0]
+			m[3] = a[sNE] + a[sE]*yE[1] + a[sN]*xN[1]
+			corner := [4]bool{l.isFixed(i, j), i+2 >= l.nx || l.isFixed(i+2, j), j+2 >= l.ny || l.isFixed(i, j+2),
+				i+2 >= l.nx || j+2 >= l.ny || l.isFixed(i+2, j+2)}
+			for q := range m {
+				if corner[q] {
+					continue
+				}
+				l.p[k+pSW+q] = -m[q] / a[sC]
+			}
+		}
+	}
+}
+
+// edgeWeights returns the interpolation weights of an edge point from the
+// lumped couplings aLo and aHi to its two coarse neighbours and its lumped
+// diagonal d (all matrix entries, couplings normally negative); c is the
+// plain diagonal, used when lumping leaves no positive diagonal.
+func edgeWeights(aLo, aHi, d, c float64) (float64, float64) {
+	if !(d > 0) {
+		d = c
+	}
+	return -aLo / d, -aHi / d
+}
