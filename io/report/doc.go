@@ -1,0 +1,37 @@
+// Package report turns a solved problem into the solve report: a Report
+// value that holds every figure an engineer acts on, and its renderings as
+// readable fixed-width text, as JSON and as CSV tables.
+//
+// # Content
+//
+// A Report names the model and its kind (planar, per metre of depth, or
+// axisymmetric, absolute), summarises the grid and the solver run, and
+// lists per conductor its potential, charge, row of the capacitance
+// matrix and peak surface field with its position; then the stored
+// energy, the peak field in every dielectric material, error estimates
+// from a grid-convergence study when one was run, and the probes and line
+// cuts the caller asked for.
+//
+// # Units
+//
+// Numbers in a Report are SI: volts, V/m, metres. Charges, capacitances and
+// energies are per metre of depth in a planar problem (C/m, F/m, J/m) and
+// absolute in an axisymmetric one (C, F, J); Report.Units names the unit of
+// each so a reader of the JSON need not guess. Every position is given
+// twice: in metres (fields ending in _m) and in the model's own length
+// unit (Report.Units.Length), for tables and axes the designer recognises.
+// WriteText prints numbers with engineering prefixes (pF/m, µJ) and field
+// strengths in V/m, V/mm or kV/mm, whichever reads best.
+//
+// # Safety
+//
+// Field maps are used to judge insulation. Whenever a report shows a field
+// strength it carries the Caution text, and WriteText prints it beside
+// every table of field strengths.
+//
+// # Stability
+//
+// JSON field names are part of the format and change only with Version.
+// ReadJSON accepts reports of this major version and ignores fields it
+// does not know, so a newer minor revision still reads.
+package report

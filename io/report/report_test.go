@@ -1,0 +1,536 @@
+package report
+
+import (
+	"bytes"
+	"context"
+	"encoding/csv"
+	"errors"
+	"flag"
+	"math"
+	"os"
+	"path/filepath"
+	"regexp"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/google/go-cmp/cmp"
+	"github.com/google/go-cmp/cmp/cmpopts"
+
+	"github.com/phigrid/phigrid/bc"
+	"github.com/phigrid/phigrid/field"
+	"github.com/phigrid/phigrid/grid"
+	"github.com/phigrid/phigrid/solve"
+)
+
+var update = flag.Bool("update", false, "rewrite golden files")
+
+// settings makes every solve reproducible: one worker, so reductions sum
+// in one order, and a tight tolerance.
+var settings = solve.Settings{Method: solve.CG, Tol: 1e-12, Workers: 1}
+
+func axis(t testing.TB, lo, hi float64, n int) []float64 {
+	t.Helper()
+	a, err := grid.Uniform(lo, hi, n)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return a
+}
+
+// solveCase solves p on the uniform n×m grid over its domain and returns
+// the solution with its capacitance matrix.
+func solveCase(t testing.TB, p *bc.Problem, n, m int) (*field.Solution, [][]float64) {
+	t.Helper()
+	d := p.Domain
+	g, err := grid.New(axis(t, d.X0, d.X1, n), axis(t, d.Y0, d.Y1, m), p.Metric)
+	if err != nil {
+		t.Fatal(err)
+	}
+	sol, err := field.Solve(context.Background(), p, g, &field.Settings{Solver: settings})
+	if err != nil {
+		t.Fatal(err)
+	}
+	c, _, err := field.CapacitanceMatrix(context.Background(), sol.Sys, &settings)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return sol, c
+}
+
+// platesProblem is a parallel-plate capacitor, 10 mm wide with a 1 mm gap:
+// 0.6 mm of εr = 4.4 on the 0 V plate and 0.4 mm of air below the 1 V
+// plate, zero-flux sides (no fringing).
+func platesProblem() *bc.Problem {
+	p := &bc.Problem{
+		Domain:     bc.Rect{X0: 0, Y0: 0, X1: 0.01, Y1: 0.001},
+		Conductors: []bc.Conductor{{Name: "hv", Potential: 1}, {Name: "gnd"}},
+		Regions: []bc.Region{
+			{Name: "FR-4", Kind: bc.Dielectric, Shape: bc.Rect{X0: 0, Y0: 0, X1: 0.01, Y1: 0.0006}, EpsR: 4.4},
+		},
+	}
+	p.Sides[bc.Top] = bc.Side{Kind: bc.Fixed, Conductor: "hv"}
+	p.Sides[bc.Bottom] = bc.Side{Kind: bc.Fixed, Conductor: "gnd"}
+	return p
+}
+
+// coaxProblem is a quarter of a coaxial line, a = 1 mm at 1 V inside
+// b = 3 mm at 0 V, with symmetry planes x = 0 and y = 0.
+func coaxProblem() *bc.Problem {
+	const a, b, L = 1e-3, 3e-3, 3.15e-3
+	return &bc.Problem{
+		Domain:     bc.Rect{X0: 0, Y0: 0, X1: L, Y1: L},
+		Conductors: []bc.Conductor{{Name: "inner", Potential: 1}, {Name: "outer"}},
+		Regions: []bc.Region{
+			{Name: "air", Kind: bc.Dielectric, Shape: bc.Circle{R: b}, EpsR: 1},
+			{Name: "shield", Kind: bc.ConductorRegion, Conductor: "outer", Shape: bc.Annulus{R0: b, R1: 2 * L}},
+			{Name: "centre", Kind: bc.ConductorRegion, Conductor: "inner", Shape: bc.Circle{R: a}},
+		},
+	}
+}
+
+// sphereProblem is the upper half of a spherical capacitor in r–z, inner
+// radius 1 mm at 1 V, outer radius 3 mm at 0 V, symmetry plane z = 0.
+func sphereProblem() *bc.Problem {
+	p := coaxProblem()
+	p.Metric = grid.Axisymmetric
+	return p
+}
+
+type golden struct {
+	name   string
+	reason string
+	build  func(t testing.TB) *Report
+}
+
+var goldens = []golden{
+	{
+		name:   "plates",
+		reason: "series dielectric layers: exact fields, probe and cut inside both layers",
+		build: func(t testing.TB) *Report {
+			sol, c := solveCase(t, platesProblem(), 11, 11)
+			r, err := Build(sol, c, BuildOptions{
+				Title:  "Parallel plates with an FR-4 layer",
+				Source: "plates.toml",
+				Unit:   Unit{"mm", 1e-3},
+				Probes: []Point{{Name: "air", X: 0.005, Y: 0.0008}, {Name: "laminate", X: 0.005, Y: 0.0003}},
+				Cuts:   []Line{{Name: "across", X0: 0.005, Y0: 0, X1: 0.005, Y1: 0.001, Samples: 11}},
+			})
+			if err != nil {
+				t.Fatal(err)
+			}
+			return r
+		},
+	},
+	{
+		name:   "coax",
+		reason: "curved conductors, symmetry planes, a convergence study copied through",
+		build: func(t testing.TB) *Report {
+			sol, c := solveCase(t, coaxProblem(), 85, 85)
+			r, err := Build(sol, c, BuildOptions{
+				Title:  "Coaxial line quarter, 1 mm / 3 mm",
+				Source: "coax.toml",
+				Unit:   Unit{"mm", 1e-3},
+				Probes: []Point{{Name: "midgap", X: 0.002, Y: 0}},
+				Cuts:   []Line{{Name: "radial", X0: 0.001, Y0: 0, X1: 0.003, Y1: 0, Samples: 21}},
+				Convergence: []Estimate{
+					{Quantity: "C[inner,inner]", Unit: "F/m", Value: 12.66e-12, Order: 2.01, Extrapolated: 12.6597e-12, Band: 0.004e-12},
+				},
+			})
+			if err != nil {
+				t.Fatal(err)
+			}
+			return r
+		},
+	},
+	{
+		name:   "sphere",
+		reason: "axisymmetric units (C, F, J) and r–z labels",
+		build: func(t testing.TB) *Report {
+			sol, c := solveCase(t, sphereProblem(), 85, 85)
+			r, err := Build(sol, c, BuildOptions{Title: "Spherical capacitor, upper half", Unit: Unit{"mm", 1e-3}})
+			if err != nil {
+				t.Fatal(err)
+			}
+			return r
+		},
+	},
+}
+
+// masks hide what differs from run to run: timings and the last digits of
+// the final residual.
+var masks = []struct {
+	re   *regexp.Regexp
+	with string
+}{
+	{regexp.MustCompile(`(?m)^Time:.*$`), "Time: (masked)"},
+	{regexp.MustCompile(`largest residual \S+,`), "largest residual (masked),"},
+}
+
+var numberRE = regexp.MustCompile(`[-+]?\d+(\.\d+)?([eE][-+]?\d+)?`)
+
+// compareText compares two text reports line by line after masking; numbers
+// within a line compare with a relative tolerance of 2e-4 (the text shows
+// five significant digits) and the rest exactly.
+func compareText(t *testing.T, got, want string) {
+	t.Helper()
+	for _, m := range masks {
+		got = m.re.ReplaceAllString(got, m.with)
+		want = m.re.ReplaceAllString(want, m.with)
+	}
+	gl, wl := strings.Split(got, "\n"), strings.Split(want, "\n")
+	if len(gl) != len(wl) {
+		t.Errorf("text report has %d lines, golden %d:\n%s", len(gl), len(wl), cmp.Diff(wl, gl))
+		return
+	}
+	for i := range gl {
+		gs, ws := numberRE.ReplaceAllString(gl[i], "#"), numberRE.ReplaceAllString(wl[i], "#")
+		if gs != ws {
+			t.Errorf("line %d:\n got %q\nwant %q", i+1, gl[i], wl[i])
+			continue
+		}
+		gn, wn := numberRE.FindAllString(gl[i], -1), numberRE.FindAllString(wl[i], -1)
+		for k := range gn {
+			a, _ := strconv.ParseFloat(gn[k], 64)
+			b, _ := strconv.ParseFloat(wn[k], 64)
+			if math.Abs(a-b) > 2e-4*math.Max(math.Abs(a), math.Abs(b)) {
+				t.Errorf("line %d: number %d is %s, golden %s:\n got %q\nwant %q", i+1, k+1, gn[k], wn[k], gl[i], wl[i])
+			}
+		}
+	}
+}
+
+// approx compares reports: relative 1e-6 on every number, with absolute
+// margins fitted to the size of each kind of figure (charges and
+// capacitances are of order 1e-11, fields and potentials of order 1); the
+// timings and the residual are ignored.
+var approx = cmp.Options{
+	cmpopts.IgnoreFields(Solver{}, "SetupSeconds", "SolveSeconds", "Residual"),
+	cmp.FilterPath(smallScale, cmpopts.EquateApprox(1e-6, 1e-22)),
+	cmp.FilterPath(func(p cmp.Path) bool { return !smallScale(p) }, cmpopts.EquateApprox(1e-6, 1e-9)),
+}
+
+func smallScale(p cmp.Path) bool {
+	for _, s := range p {
+		if f, ok := s.(cmp.StructField); ok {
+			switch f.Name() {
+			case "Charge", "Capacitance", "Energy", "Value", "Extrapolated", "Band":
+				return true
+			}
+		}
+	}
+	return false
+}
+
+func TestGolden(t *testing.T) {
+	for _, gc := range goldens {
+		t.Run(gc.name, func(t *testing.T) {
+			r := gc.build(t)
+			var txt, js bytes.Buffer
+			if err := r.WriteText(&txt); err != nil {
+				t.Fatal(err)
+			}
+			if err := r.WriteJSON(&js); err != nil {
+				t.Fatal(err)
+			}
+			tf := filepath.Join("testdata", gc.name+".txt")
+			jf := filepath.Join("testdata", gc.name+".json")
+			if *update {
+				if err := os.WriteFile(tf, txt.Bytes(), 0o644); err != nil {
+					t.Fatal(err)
+				}
+				if err := os.WriteFile(jf, js.Bytes(), 0o644); err != nil {
+					t.Fatal(err)
+				}
+				return
+			}
+			wantTxt, err := os.ReadFile(tf)
+			if err != nil {
+				t.Fatalf("%v (run go test -update to create the golden files)", err)
+			}
+			compareText(t, txt.String(), string(wantTxt))
+			wantJS, err := os.ReadFile(jf)
+			if err != nil {
+				t.Fatal(err)
+			}
+			want, err := ReadJSON(bytes.NewReader(wantJS))
+			if err != nil {
+				t.Fatal(err)
+			}
+			got, err := ReadJSON(&js)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if d := cmp.Diff(want, got, approx); d != "" {
+				t.Errorf("JSON report differs from %s (-golden +got):\n%s", jf, d)
+			}
+		})
+	}
+}
+
+func TestJSONRoundTrip(t *testing.T) {
+	for _, gc := range goldens {
+		t.Run(gc.name, func(t *testing.T) {
+			r := gc.build(t)
+			var buf bytes.Buffer
+			if err := r.WriteJSON(&buf); err != nil {
+				t.Fatal(err)
+			}
+			back, err := ReadJSON(&buf)
+			if err != nil {
+				t.Fatal(err)
+			}
+			// Exact: JSON carries the shortest decimal that reads back to
+			// the same float64.
+			if d := cmp.Diff(r, back); d != "" {
+				t.Errorf("round trip changed the report (-wrote +read):\n%s", d)
+			}
+		})
+	}
+}
+
+func within(t *testing.T, what string, got, want, rel float64) {
+	t.Helper()
+	if e := math.Abs(got/want - 1); !(e <= rel) {
+		t.Errorf("%s = %.9g, want %.9g (relative error %.2g > %.2g)", what, got, want, e, rel)
+	}
+}
+
+// TestPlatesClosedForm checks the plates report against the series-layer
+// closed form, which the finite-volume scheme reproduces to round-off when
+// the interface lies on a grid line.
+func TestPlatesClosedForm(t *testing.T) {
+	r := goldens[0].build(t)
+	// source: Griffiths, Introduction to Electrodynamics (Gauss's law, D_n continuous): C' = ε0 w/(d1/εr1 + d2/εr2) = 165.07808 pF/m
+	const wantC = 165.07808e-12
+	hv, gnd := r.Conductors[0], r.Conductors[1]
+	within(t, "C[hv,hv]", hv.Capacitance[0], wantC, 1e-7)
+	within(t, "-C[hv,gnd]", -hv.Capacitance[1], wantC, 1e-7)
+	within(t, "Q[hv]", hv.Charge, wantC, 1e-7)
+	within(t, "-Q[gnd]", -gnd.Charge, wantC, 1e-7)
+	// source: Griffiths, Introduction to Electrodynamics: W' = C'V²/2
+	within(t, "W'", r.Energy, wantC/2, 1e-7)
+	// source: REFERENCES P02a (series layers): E_air = 1864.4068 V/m, E_diel = 423.72881 V/m
+	within(t, "peak |E| on hv", hv.PeakField.Field, 1864.4068, 1e-7)
+	within(t, "peak |E| on gnd", gnd.PeakField.Field, 423.72881, 1e-7)
+	if y := hv.PeakField.At.Y; math.Abs(y-1) > 1e-12 {
+		t.Errorf("peak on hv at y = %g mm, want the plate at 1 mm", y)
+	}
+	if y := hv.PeakField.At.YM; math.Abs(y-1e-3) > 1e-15 {
+		t.Errorf("peak on hv at y = %g m, want 1e-3", y)
+	}
+	regions := map[string]float64{}
+	for _, p := range r.Regions {
+		regions[p.Where] = p.Field
+	}
+	within(t, "peak |E| in air", regions["background"], 1864.4068, 1e-7)
+	within(t, "peak |E| in FR-4", regions["FR-4"], 423.72881, 1e-7)
+	// source: REFERENCES P02a: φ(interface) = 0.25423729 V, so φ(0.8 mm) = 0.25423729 + 1864.4068·0.2e-3
+	within(t, "φ(probe air)", r.Probes[0].Potential, 0.25423729+1864.4068*0.2e-3, 1e-7)
+	within(t, "|E|(probe laminate)", r.Probes[1].E, 423.72881, 1e-6)
+	cut := r.Cuts[0].Samples
+	within(t, "φ(interface) on the cut", cut[6].Potential, 0.25423729, 1e-7)
+	within(t, "cut length", cut[len(cut)-1].S, 1e-3, 1e-12)
+	if r.Caution != Caution {
+		t.Errorf("a report with field strengths must carry the caution, got %q", r.Caution)
+	}
+	if r.Kind != (Kind{"planar", true}) || r.Units.Charge != "C/m" || r.Units.Capacitance != "F/m" || r.Units.Energy != "J/m" {
+		t.Errorf("planar kind and units wrong: %+v %+v", r.Kind, r.Units)
+	}
+	if r.Grid.Nodes != 121 || r.Grid.Free != 99 || math.Abs(r.Grid.MinCell-1e-4) > 1e-15 || math.Abs(r.Grid.MaxCell-1e-3) > 1e-15 {
+		t.Errorf("grid summary %+v, want 121 nodes, 99 free, cells 0.1 mm to 1 mm", r.Grid)
+	}
+	// One solve for the potential; the capacitance matrix came from a
+	// separate call and is not in the solution's statistics.
+	if r.Solver.Solves != 1 || r.Solver.Method != "cg" || r.Solver.Status != "converged" {
+		t.Errorf("solver summary %+v, want one converged cg solve", r.Solver)
+	}
+}
+
+// TestCoaxClosedForm checks the coax report against C' = 2πε0/ln(b/a) and
+// E(a) = V/(a ln(b/a)). The grid has cells of a/27; the capacitance is
+// good to a few 1e-4, while the peak surface field is the largest of the
+// pointwise surface estimates and carries their scatter (about 1.5 % here).
+func TestCoaxClosedForm(t *testing.T) {
+	r := goldens[1].build(t)
+	// source: Ramo, Whinnery & Van Duzer, Fields and Waves in Communication Electronics, 1994: C' = 2πε0/ln(b/a) = 50.638886 pF/m; a quarter holds a quarter
+	within(t, "C[inner,inner]", r.Conductors[0].Capacitance[0], 50.638886e-12/4, 2e-3)
+	// source: Ramo, Whinnery & Van Duzer, 1994: E(a) = V/(a ln(b/a)) = 910.23923 V/m
+	within(t, "peak |E| on inner", r.Conductors[0].PeakField.Field, 910.23923, 2.5e-2)
+	// source: Ramo, Whinnery & Van Duzer, 1994: E(b) = 303.41308 V/m
+	within(t, "peak |E| on outer", r.Conductors[1].PeakField.Field, 303.41308, 1e-2)
+	// source: REFERENCES P04a: φ(r = 2 mm) = ln(b/r)/ln(b/a) = 0.36907025 V
+	within(t, "φ(midgap)", r.Probes[0].Potential, 0.36907025, 2e-3)
+	if len(r.Estimates) != 1 || r.Estimates[0].Quantity != "C[inner,inner]" {
+		t.Errorf("estimates not copied: %+v", r.Estimates)
+	}
+}
+
+// TestSphereClosedForm checks the axisymmetric report: C = 4πε0·ab/(b−a)
+// for the whole sphere, half of it in the upper half-space. As in the coax,
+// the peak surface field carries the scatter of the pointwise estimates
+// (3 % at cells of a/27).
+func TestSphereClosedForm(t *testing.T) {
+	r := goldens[2].build(t)
+	const a, b = 1e-3, 3e-3
+	// source: Griffiths, Introduction to Electrodynamics (spherical capacitor): C = 4πε0·ab/(b−a)
+	want := 4 * math.Pi * solve.Eps0 * a * b / (b - a) / 2
+	within(t, "C[inner,inner]", r.Conductors[0].Capacitance[0], want, 5e-3)
+	// source: Griffiths, Introduction to Electrodynamics: E(a) = V·b/(a(b−a)) = 1500 V/m
+	within(t, "peak |E| on inner", r.Conductors[0].PeakField.Field, 1500, 4e-2)
+	if r.Kind != (Kind{"axisymmetric", false}) || r.Units.Charge != "C" || r.Units.Capacitance != "F" || r.Units.Energy != "J" {
+		t.Errorf("axisymmetric kind and units wrong: %+v %+v", r.Kind, r.Units)
+	}
+}
+
+func TestCSV(t *testing.T) {
+	r := goldens[0].build(t)
+	for _, c := range []struct {
+		name   string
+		write  func(*bytes.Buffer) error
+		rows   int
+		header []string
+	}{
+		{"conductors", func(b *bytes.Buffer) error { return r.WriteConductorsCSV(b) }, 3,
+			[]string{"name", "potential_V", "floating", "charge_C_per_m", "C_hv_F_per_m", "C_gnd_F_per_m", "peak_field_V_per_m", "x_mm", "y_mm", "x_m", "y_m"}},
+		{"probes", func(b *bytes.Buffer) error { return r.WriteProbesCSV(b) }, 3,
+			[]string{"name", "x_mm", "y_mm", "x_m", "y_m", "potential_V", "ex_V_per_m", "ey_V_per_m", "e_V_per_m"}},
+		{"cuts", func(b *bytes.Buffer) error { return r.WriteCutsCSV(b) }, 12,
+			[]string{"cut", "index", "s_m", "x_mm", "y_mm", "x_m", "y_m", "potential_V", "ex_V_per_m", "ey_V_per_m", "e_V_per_m"}},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			var buf bytes.Buffer
+			if err := c.write(&buf); err != nil {
+				t.Fatal(err)
+			}
+			rows, err := csv.NewReader(&buf).ReadAll()
+			if err != nil {
+				t.Fatal(err)
+			}
+			if len(rows) != c.rows {
+				t.Fatalf("%d rows, want %d", len(rows), c.rows)
+			}
+			if d := cmp.Diff(c.header, rows[0]); d != "" {
+				t.Errorf("header (-want +got):\n%s", d)
+			}
+		})
+	}
+	// The numbers read back exactly.
+	var buf bytes.Buffer
+	if err := r.WriteConductorsCSV(&buf); err != nil {
+		t.Fatal(err)
+	}
+	rows, _ := csv.NewReader(&buf).ReadAll()
+	q, _ := strconv.ParseFloat(rows[1][3], 64)
+	c01, _ := strconv.ParseFloat(rows[1][5], 64)
+	if q != r.Conductors[0].Charge || c01 != r.Conductors[0].Capacitance[1] {
+		t.Errorf("CSV numbers do not read back exactly: %v", rows[1])
+	}
+}
+
+func TestBuildErrors(t *testing.T) {
+	sol, c := solveCase(t, platesProblem(), 11, 11)
+	for _, tc := range []struct {
+		name, reason string
+		c            [][]float64
+		opts         BuildOptions
+		want         string
+	}{
+		{"probe outside", "a probe must lie in the domain", c, BuildOptions{Unit: Unit{"mm", 1e-3}, Probes: []Point{{Name: "far", X: 0.02, Y: 0}}}, `probe "far": the point (20, 0) mm lies outside the domain [0, 10]×[0, 1] mm`},
+		{"cut outside", "every cut sample must lie in the domain", c, BuildOptions{Cuts: []Line{{Name: "long", X0: 0, Y0: 0, X1: 0, Y1: 0.002, Samples: 3}}}, `line cut "long"`},
+		{"cut samples", "a cut needs two samples", c, BuildOptions{Cuts: []Line{{X0: 0, Y0: 0, X1: 0, Y1: 0.001, Samples: 1}}}, "give between 2 and"},
+		{"cut length", "a cut needs two end points", c, BuildOptions{Cuts: []Line{{X1: 0, Samples: 5}}}, "two different finite end points"},
+		{"matrix size", "the matrix must fit the conductors", [][]float64{{1}}, BuildOptions{}, "1 rows but the problem has 2 conductors"},
+		{"ragged matrix", "every row must fit", [][]float64{{1, 2}, {3}}, BuildOptions{}, "row 1 of the capacitance matrix has 1 entries"},
+		{"unit", "a unit needs a positive scale", c, BuildOptions{Unit: Unit{"mm", 0}}, "give a name and its size in metres"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := Build(sol, tc.c, tc.opts)
+			if !errors.Is(err, ErrInvalid) || !strings.Contains(err.Error(), tc.want) {
+				t.Errorf("%s: got %v, want an ErrInvalid error containing %q", tc.reason, err, tc.want)
+			}
+		})
+	}
+	if _, err := Build(&field.Solution{}, nil, BuildOptions{}); !errors.Is(err, ErrInvalid) {
+		t.Errorf("an empty solution gave %v, want ErrInvalid", err)
+	}
+}
+
+func TestReadJSONErrors(t *testing.T) {
+	for _, tc := range []struct{ name, in, want string }{
+		{"not JSON", "phigrid", "invalid character"},
+		{"other format", `{"format":"x","version":1}`, `format is "x"`},
+		{"newer version", `{"format":"phigrid-report","version":2}`, "report version 2"},
+		{"two documents", `{"format":"phigrid-report","version":1} {}`, "data follows"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := ReadJSON(strings.NewReader(tc.in))
+			if !errors.Is(err, ErrFormat) || !strings.Contains(err.Error(), tc.want) {
+				t.Errorf("got %v, want ErrFormat containing %q", err, tc.want)
+			}
+		})
+	}
+}
+
+func TestCautionBesideFields(t *testing.T) {
+	r := goldens[0].build(t)
+	var buf bytes.Buffer
+	if err := r.WriteText(&buf); err != nil {
+		t.Fatal(err)
+	}
+	txt := buf.String()
+	// One caution after each table with field strengths: conductors,
+	// materials, probes, cuts.
+	if n := strings.Count(txt, "Caution:"); n != 4 {
+		t.Errorf("the text shows the caution %d times, want 4 (after every field table):\n%s", n, txt)
+	}
+	// A report without field strengths carries none.
+	bare := &Report{Format: Format, Version: Version, Conductors: []Conductor{{Name: "a"}}}
+	if bare.ShowsField() {
+		t.Error("a report without peaks, probes or cuts claims to show a field")
+	}
+	buf.Reset()
+	if err := bare.WriteText(&buf); err != nil {
+		t.Fatal(err)
+	}
+	if strings.Contains(buf.String(), "Caution") {
+		t.Errorf("caution printed without any field strength:\n%s", buf.String())
+	}
+}
+
+func TestFormatting(t *testing.T) {
+	for _, c := range []struct {
+		v    float64
+		unit string
+		want string
+	}{
+		{165.07808e-12, "F/m", "165.08 pF/m"},
+		{-165.07808e-12, "C/m", "-165.08 pC/m"},
+		{1, "V", "1.0000 V"},
+		{0, "J", "0 J"},
+		{999.9996e-12, "F", "1.0000 nF"},
+		{12.5e3, "V", "12.500 kV"},
+		{3.2e-6, "s", "3.2000 µs"},
+	} {
+		if got := eng(c.v, c.unit); got != c.want {
+			t.Errorf("eng(%g, %q) = %q, want %q", c.v, c.unit, got, c.want)
+		}
+	}
+	for _, c := range []struct {
+		v    float64
+		want string
+	}{
+		{423.72881, "423.73 V/m"},
+		{1864.4068, "1.8644 V/mm"},
+		{3e6, "3.0000 kV/mm"},
+		{-2.5e9, "-2.5000 MV/mm"},
+		{0.5, "500.00 mV/m"},
+	} {
+		if got := fieldStrength(c.v); got != c.want {
+			t.Errorf("fieldStrength(%g) = %q, want %q", c.v, got, c.want)
+		}
+	}
+	if got := wrap("aa bb cc dd", 5); !cmp.Equal(got, []string{"aa bb", "cc dd"}) {
+		t.Errorf("wrap = %q", got)
+	}
+}
