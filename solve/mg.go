@@ -83,10 +83,14 @@ type Multigrid struct {
 
 var _ Solver = (*Multigrid)(nil)
 
-// LineRatio is the coupling ratio above which a level relaxes by lines:
-// when somewhere on the level the couplings along one axis exceed those
-// along the other by more than this factor.
-const LineRatio = 4
+// LineRatio and LineShare decide when a level relaxes by lines: when at
+// more than one free node in LineShare the couplings along one axis exceed
+// those along the other by more than LineRatio (cells about twice as long
+// as they are wide).
+const (
+	LineRatio = 4
+	LineShare = 100
+)
 
 // serialNodes is the level size below which kernels run on the calling
 // goroutine: waking the workers would cost more than the work.

@@ -55,9 +55,9 @@ type coarseLevel struct {
 	run      func(n int, fn func(lo, hi int))
 
 	// Operands and prebuilt closures of the parallel kernels.
-	opX, opB, opR []float64
-	cx, cb        []float64
-	color         int
+	opX, opB, opR   []float64
+	cx, cb          []float64
+	color, lineAxis int
 
 	smoothFn, residualFn, restrictFn, prolongFn, lineFn func(lo, hi int)
 }
@@ -80,6 +80,7 @@ func newCoarseLevel(nx, ny int) *coarseLevel {
 	l.residualFn = l.residualBlocks
 	l.restrictFn = l.restrictBlocks
 	l.prolongFn = l.prolongBlocks
+	l.lineFn = l.lineBlocks
 	return l
 }
 

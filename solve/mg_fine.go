@@ -17,7 +17,7 @@ type fineLevel struct {
 	run      func(n int, fn func(lo, hi int))
 
 	opX, opB, opR, cx, cb []float64
-	color                 int
+	color, lineAxis       int
 
 	smoothFn, zeroFn, restrictFn, prolongFn, lineFn func(lo, hi int)
 }
@@ -29,6 +29,7 @@ func newFineLevel(sys *System, k *kernels) *fineLevel {
 	f.zeroFn = f.zeroBlocks
 	f.restrictFn = f.restrictBlocks
 	f.prolongFn = f.prolongBlocks
+	f.lineFn = f.lineBlocks
 	return f
 }
 

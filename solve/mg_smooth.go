@@ -1,8 +1,254 @@
 package solve
 
-// chooseSmoother picks the relaxation of a level from its couplings.
-func chooseSmoother(l mgLevel) Smoother { return PointGS }
+import "math"
 
-func (f *fineLevel) smoothLines(post bool) { panic("solve: line relaxation not built") }
+// chooseSmoother picks the relaxation of a level from its couplings:
+// lines along an axis when at more than one free node in LineShare the
+// couplings along that axis exceed those across it by more than LineRatio,
+// point Gauss–Seidel otherwise. Point relaxation cannot smooth an error
+// that varies slowly along the strong direction, and standard coarsening
+// cannot represent it; solving whole lines removes exactly that error.
+// Isolated anisotropic nodes (next to a fixed node, on the axis of an
+// axisymmetric grid) do not count: they cannot hold such an error.
+func chooseSmoother(l mgLevel) Smoother {
+	nx, ny := l.dims()
+	var a [9]float64
+	var free, strongX, strongY int
+	for j := 0; j < ny; j++ {
+		for i := 0; i < nx; i++ {
+			if l.isFixed(i, j) {
+				continue
+			}
+			free++
+			l.row(i, j, &a)
+			sx := math.Abs(a[sW]) + math.Abs(a[sE])
+			sy := math.Abs(a[sS]) + math.Abs(a[sN])
+			if sx > LineRatio*sy && sy > 0 {
+				strongX++
+			}
+			if sy > LineRatio*sx && sx > 0 {
+				strongY++
+			}
+		}
+	}
+	needX, needY := strongX*LineShare > free, strongY*LineShare > free
+	switch {
+	case needX && needY:
+		return LineXY
+	case needX:
+		return LineX
+	case needY:
+		return LineY
+	}
+	return PointGS
+}
 
-func (l *coarseLevel) smoothLines(post bool) { panic("solve: line relaxation not built") }
+// lineSteps lists the zebra half-steps of a line smoother, forward: the
+// axis (0 for X lines, 1 for Y lines) and the parity of the lines.
+func lineSteps(s Smoother) [][2]int {
+	switch s {
+	case LineX:
+		return [][2]int{{0, 0}, {0, 1}}
+	case LineY:
+		return [][2]int{{1, 0}, {1, 1}}
+	}
+	return [][2]int{{0, 0}, {0, 1}, {1, 0}, {1, 1}}
+}
+
+var (
+	stepsX  = lineSteps(LineX)
+	stepsY  = lineSteps(LineY)
+	stepsXY = lineSteps(LineXY)
+)
+
+func stepsOf(s Smoother) [][2]int {
+	switch s {
+	case LineX:
+		return stepsX
+	case LineY:
+		return stepsY
+	}
+	return stepsXY
+}
+
+// smoothLines runs the zebra line steps forward, or backward for post.
+// The residual vector holds the eliminated super-diagonal while it runs.
+func (f *fineLevel) smoothLines(post bool) {
+	steps := stepsOf(f.smoother)
+	for q := range steps {
+		st := steps[q]
+		if post {
+			st = steps[len(steps)-1-q]
+		}
+		f.lineAxis, f.color = st[0], st[1]
+		if st[0] == 0 {
+			f.run(f.k.blocks, f.lineFn)
+		} else {
+			f.run(min(64, f.nx), f.lineFn)
+		}
+	}
+}
+
+// lineBlocks solves the lines of the current axis and parity in its
+// blocks (row blocks for X lines, column blocks for Y lines) by the
+// Thomas algorithm; lines of one parity do not couple.
+func (f *fineLevel) lineBlocks(lo, hi int) {
+	s := f.sys
+	nx, ny := f.nx, f.ny
+	x, b, cp := f.opX, f.opB, f.r
+	ax, ay, d := s.AX, s.AY, s.Diag
+	if f.lineAxis == 0 {
+		for blk := lo; blk < hi; blk++ {
+			j0, j1 := f.k.rows(blk)
+			for j := j0; j < j1; j++ {
+				if j&1 != f.color {
+					continue
+				}
+				o := j * nx
+				prevC, prevX := 0.0, 0.0
+				for i := 0; i < nx; i++ {
+					n := o + i
+					rhs := b[n]
+					if j > 0 {
+						rhs += ay[n-nx] * x[n-nx]
+					}
+					if j+1 < ny {
+						rhs += ay[n] * x[n+nx]
+					}
+					var sub, sup float64
+					if i > 0 {
+						sub = -ax[n-1]
+					}
+					if i+1 < nx {
+						sup = -ax[n]
+					}
+					inv := 1 / (d[n] - sub*prevC)
+					prevC = sup * inv
+					prevX = (rhs - sub*prevX) * inv
+					cp[n], x[n] = prevC, prevX
+				}
+				for i := nx - 2; i >= 0; i-- {
+					n := o + i
+					x[n] -= cp[n] * x[n+1]
+				}
+			}
+		}
+		return
+	}
+	blocks := min(64, nx)
+	for blk := lo; blk < hi; blk++ {
+		i0, i1 := blk*nx/blocks, (blk+1)*nx/blocks
+		if i0&1 != f.color {
+			i0++
+		}
+		for j := 0; j < ny; j++ {
+			o := j * nx
+			for i := i0; i < i1; i += 2 {
+				n := o + i
+				rhs := b[n]
+				if i > 0 {
+					rhs += ax[n-1] * x[n-1]
+				}
+				if i+1 < nx {
+					rhs += ax[n] * x[n+1]
+				}
+				var sub, sup, pc, px float64
+				if j > 0 {
+					sub = -ay[n-nx]
+					pc, px = cp[n-nx], x[n-nx]
+				}
+				if j+1 < ny {
+					sup = -ay[n]
+				}
+				inv := 1 / (d[n] - sub*pc)
+				cp[n] = sup * inv
+				x[n] = (rhs - sub*px) * inv
+			}
+		}
+		for j := ny - 2; j >= 0; j-- {
+			o := j * nx
+			for i := i0; i < i1; i += 2 {
+				n := o + i
+				x[n] -= cp[n] * x[n+nx]
+			}
+		}
+	}
+}
+
+// smoothLines runs the zebra line steps forward, or backward for post.
+func (l *coarseLevel) smoothLines(post bool) {
+	steps := stepsOf(l.smoother)
+	for q := range steps {
+		st := steps[q]
+		if post {
+			st = steps[len(steps)-1-q]
+		}
+		l.lineAxis, l.color = st[0], st[1]
+		if st[0] == 0 {
+			l.run(l.blocks, l.lineFn)
+		} else {
+			l.run(min(64, l.nx), l.lineFn)
+		}
+	}
+}
+
+func (l *coarseLevel) lineBlocks(lo, hi int) {
+	st := l.st
+	x, b, cp := l.opX, l.opB, l.r
+	c, w, s, sw, se := l.c, l.w, l.s, l.sw, l.se
+	nx, ny := l.nx, l.ny
+	if l.lineAxis == 0 {
+		for blk := lo; blk < hi; blk++ {
+			j0, j1 := l.rows(blk)
+			for j := j0; j < j1; j++ {
+				if j&1 != l.color {
+					continue
+				}
+				o := (j+1)*st + 1
+				prevC, prevX := 0.0, 0.0
+				for i := 0; i < nx; i++ {
+					n := o + i
+					rhs := b[n] - s[n]*x[n-st] - s[n+st]*x[n+st] -
+						sw[n]*x[n-st-1] - se[n]*x[n-st+1] - sw[n+st+1]*x[n+st+1] - se[n+st-1]*x[n+st-1]
+					sub := w[n]
+					inv := 1 / (c[n] - sub*prevC)
+					prevC = w[n+1] * inv
+					prevX = (rhs - sub*prevX) * inv
+					cp[n], x[n] = prevC, prevX
+				}
+				for i := nx - 2; i >= 0; i-- {
+					n := o + i
+					x[n] -= cp[n] * x[n+1]
+				}
+			}
+		}
+		return
+	}
+	blocks := min(64, nx)
+	for blk := lo; blk < hi; blk++ {
+		i0, i1 := blk*nx/blocks, (blk+1)*nx/blocks
+		if i0&1 != l.color {
+			i0++
+		}
+		for j := 0; j < ny; j++ {
+			o := (j+1)*st + 1
+			for i := i0; i < i1; i += 2 {
+				n := o + i
+				rhs := b[n] - w[n]*x[n-1] - w[n+1]*x[n+1] -
+					sw[n]*x[n-st-1] - se[n]*x[n-st+1] - sw[n+st+1]*x[n+st+1] - se[n+st-1]*x[n+st-1]
+				sub := s[n]
+				// The halo row below holds cp = x = 0.
+				inv := 1 / (c[n] - sub*cp[n-st])
+				cp[n] = s[n+st] * inv
+				x[n] = (rhs - sub*x[n-st]) * inv
+			}
+		}
+		for j := ny - 2; j >= 0; j-- {
+			o := (j+1)*st + 1
+			for i := i0; i < i1; i += 2 {
+				n := o + i
+				x[n] -= cp[n] * x[n+st]
+			}
+		}
+	}
+}

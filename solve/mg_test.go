@@ -153,3 +153,12 @@ func TestMGDebug(t *testing.T) {
 		}
 	}
 }
+
+func TestMGLevelsDebug(t *testing.T) {
+	for _, c := range mgCases {
+		s := c.build(t, 129)
+		mg, _ := NewMultigrid(s, nil)
+		t.Logf("%s: %v", c.name, mg.Levels())
+		mg.Close()
+	}
+}
