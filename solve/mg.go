@@ -136,6 +136,7 @@ func newMultigrid(sys *System, k *kernels, set Settings) *Multigrid {
 		switch l := cur.(type) {
 		case *fineLevel:
 			l.ncx, l.ncy = ncx, ncy
+			l.prepare()
 		case *coarseLevel:
 			l.ncx, l.ncy = ncx, ncy
 			l.computeWeights()

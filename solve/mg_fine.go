@@ -1,5 +1,7 @@
 package solve
 
+import "math"
+
 // fineLevel is the finest multigrid level: the assembled five-point
 // System itself, read in place. Its interpolation weights are not stored
 // but recomputed from the operator wherever they are needed (setup,
@@ -12,21 +14,26 @@ type fineLevel struct {
 	// r is the residual of the finest level.
 	r        []float64
 	ncx, ncy int
+	// ix and iy hold, per coarse point (I, J), the inverse lumped
+	// diagonals of the x-edge point (2I+1, 2J) and the y-edge point
+	// (2I, 2J+1).
+	ix, iy []float64
 
 	smoother Smoother
 	run      func(n int, fn func(lo, hi int))
 
 	opX, opB, opR, cx, cb []float64
 	color, lineAxis       int
+	zero                  bool
 
-	smoothFn, zeroFn, restrictFn, prolongFn, lineFn func(lo, hi int)
+	smoothFn, edgeFn, restrictFn, prolongFn, lineFn func(lo, hi int)
 }
 
 func newFineLevel(sys *System, k *kernels) *fineLevel {
 	f := &fineLevel{sys: sys, nx: sys.Nx, ny: sys.Ny, k: k}
 	f.r = make([]float64, sys.Len())
 	f.smoothFn = f.smoothBlocks
-	f.zeroFn = f.zeroBlocks
+	f.edgeFn = f.edgeBlocks
 	f.restrictFn = f.restrictBlocks
 	f.prolongFn = f.prolongBlocks
 	f.lineFn = f.lineBlocks
@@ -59,57 +66,72 @@ func (f *fineLevel) row(i, j int, a *[9]float64) {
 	}
 }
 
-// xEdge returns the weights of x-edge point (i, j) (i odd, j even) from
-// its west and east coarse neighbours: the row collapsed along Y,
-// w = a/(d − a_S − a_N). The lumped diagonal is kept at least the sum of
-// the two X couplings, which it equals up to round-off when the row has no
-// coupling to a fixed node.
-func (f *fineLevel) xEdge(i, j int) (float64, float64) {
+// prepare computes the lumped diagonals of the edge points once the
+// coarse grid is known; their inverses make the edge weights.
+func (f *fineLevel) prepare() {
 	s := f.sys
+	nx, ny := f.nx, f.ny
+	f.ix = make([]float64, f.ncx*f.ncy)
+	f.iy = make([]float64, f.ncx*f.ncy)
+	for J := 0; J < f.ncy; J++ {
+		for I := 0; I < f.ncx; I++ {
+			i, j := 2*I, 2*J
+			k := I + f.ncx*J
+			if i+1 < nx {
+				// x-edge (i+1, j): the row collapsed along Y.
+				n := j*nx + i + 1
+				d := s.Diag[n]
+				if j > 0 {
+					d -= s.AY[n-nx]
+				}
+				if j+1 < ny {
+					d -= s.AY[n]
+				}
+				f.ix[k] = lumpedInverse(d, s.AX[n-1]+s.AX[n])
+			}
+			if j+1 < ny {
+				n := (j+1)*nx + i
+				d := s.Diag[n]
+				if i > 0 {
+					d -= s.AX[n-1]
+				}
+				if i+1 < nx {
+					d -= s.AX[n]
+				}
+				f.iy[k] = lumpedInverse(d, s.AY[n-nx]+s.AY[n])
+			}
+		}
+	}
+}
+
+// lumpedInverse returns 1/d for the lumped diagonal d of an edge point
+// whose two couplings along the edge sum to t. d equals t plus the
+// couplings to fixed nodes, so it is kept at least t against round-off; a
+// point without couplings along the edge gets zero weights.
+func lumpedInverse(d, t float64) float64 {
+	d = math.Max(d, t)
+	if !(d > 0) || t == 0 {
+		return 0
+	}
+	return 1 / d
+}
+
+// xEdge returns the weights of x-edge point (i, j) (i odd, j even) from
+// its west and east coarse neighbours: its X couplings over its row's
+// diagonal collapsed along Y, w = a/(d − a_S − a_N) (in the sign convention
+// of the couplings, which are positive).
+func (f *fineLevel) xEdge(i, j int) (float64, float64) {
 	n := j*f.nx + i
-	d := s.Diag[n]
-	if j > 0 {
-		d -= s.AY[n-f.nx]
-	}
-	if j+1 < f.ny {
-		d -= s.AY[n]
-	}
-	aw, ae := s.AX[n-1], 0.0
-	if i+1 < f.nx {
-		ae = s.AX[n]
-	}
-	if t := aw + ae; d < t {
-		d = t
-	}
-	if !(d > 0) {
-		return 0, 0
-	}
-	return aw / d, ae / d
+	inv := f.ix[i>>1+f.ncx*(j>>1)]
+	return f.sys.AX[n-1] * inv, f.sys.AX[n] * inv
 }
 
 // yEdge returns the weights of y-edge point (i, j) (i even, j odd) from
 // its south and north coarse neighbours.
 func (f *fineLevel) yEdge(i, j int) (float64, float64) {
-	s := f.sys
 	n := j*f.nx + i
-	d := s.Diag[n]
-	if i > 0 {
-		d -= s.AX[n-1]
-	}
-	if i+1 < f.nx {
-		d -= s.AX[n]
-	}
-	as, an := s.AY[n-f.nx], 0.0
-	if j+1 < f.ny {
-		an = s.AY[n]
-	}
-	if t := as + an; d < t {
-		d = t
-	}
-	if !(d > 0) {
-		return 0, 0
-	}
-	return as / d, an / d
+	inv := f.iy[i>>1+f.ncx*(j>>1)]
+	return f.sys.AY[n-f.nx] * inv, f.sys.AY[n] * inv
 }
 
 // centre returns the factors by which the cell centre (i, j) (both odd)
@@ -161,6 +183,13 @@ func (f *fineLevel) interp(I, J int, w *[pLen]float64) {
 // smooth is red-black Gauss–Seidel: red (i+j even) then black forward,
 // black then red backward. With zero set x is taken as zero on entry, so
 // the first red half-sweep is x = D⁻¹b.
+//
+// Both half-sweeps run in one pass over memory: a block relaxes the first
+// colour on row j and then the second colour on row j−1, whose first-colour
+// neighbours are then final. The second colour on a block's first and
+// last rows needs the neighbouring blocks' first colour and follows in a
+// second, short pass. Every node sees exactly the values of two separate
+// half-sweeps, so the result does not depend on the blocking.
 func (f *fineLevel) smooth(x, b []float64, zero, post bool) {
 	f.opX, f.opB = x, b
 	k := f.k
@@ -172,85 +201,102 @@ func (f *fineLevel) smooth(x, b []float64, zero, post bool) {
 		f.smoothLines(post)
 		return
 	}
+	f.color, f.zero = 0, zero
 	if post {
-		f.color = 1
-		f.run(k.blocks, f.smoothFn)
-		f.color = 0
-		f.run(k.blocks, f.smoothFn)
-		return
+		f.color, f.zero = 1, false
 	}
-	f.color = 0
-	if zero {
-		f.run(k.blocks, f.zeroFn)
-	} else {
-		f.run(k.blocks, f.smoothFn)
-	}
-	f.color = 1
 	f.run(k.blocks, f.smoothFn)
+	f.run(k.blocks, f.edgeFn)
 }
 
-// zeroBlocks sets the red nodes to D⁻¹b (a red half-sweep from zero).
-func (f *fineLevel) zeroBlocks(lo, hi int) {
-	nx := f.nx
-	x, b, inv := f.opX, f.opB, f.k.invDiag
+// smoothBlocks is the pipelined pass of smooth.
+func (f *fineLevel) smoothBlocks(lo, hi int) {
+	first, second := f.color, 1-f.color
 	for blk := lo; blk < hi; blk++ {
 		j0, j1 := f.k.rows(blk)
 		for j := j0; j < j1; j++ {
-			o := j * nx
-			for i := j & 1; i < nx; i += 2 {
-				x[o+i] = b[o+i] * inv[o+i]
+			if f.zero {
+				f.zeroRow(j)
+			} else {
+				f.relaxRow(j, first)
+			}
+			if j-1 > j0 {
+				f.relaxRow(j-1, second)
 			}
 		}
 	}
 }
 
-// smoothBlocks relaxes the nodes of colour f.color. Fixed rows have no
-// couplings, so they take x = b without a test.
-func (f *fineLevel) smoothBlocks(lo, hi int) {
+// edgeBlocks relaxes the second colour on the first and last row of each
+// block.
+func (f *fineLevel) edgeBlocks(lo, hi int) {
+	second := 1 - f.color
+	for blk := lo; blk < hi; blk++ {
+		j0, j1 := f.k.rows(blk)
+		if j1 > j0 {
+			f.relaxRow(j0, second)
+		}
+		if j1-1 > j0 {
+			f.relaxRow(j1-1, second)
+		}
+	}
+}
+
+// zeroRow sets the red nodes of row j to D⁻¹b (a red half-sweep from
+// zero).
+func (f *fineLevel) zeroRow(j int) {
+	nx := f.nx
+	x, b, inv := f.opX, f.opB, f.k.invDiag
+	o := j * nx
+	for i := j & 1; i < nx; i += 2 {
+		x[o+i] = b[o+i] * inv[o+i]
+	}
+}
+
+// relaxRow relaxes the nodes of the given colour on row j. Fixed rows have
+// no couplings, so they take x = b without a test.
+func (f *fineLevel) relaxRow(j, color int) {
 	s := f.sys
 	nx, ny := f.nx, f.ny
 	x, b, inv := f.opX, f.opB, f.k.invDiag
 	ax, ay := s.AX, s.AY
-	for blk := lo; blk < hi; blk++ {
-		j0, j1 := f.k.rows(blk)
-		for j := j0; j < j1; j++ {
-			o := j * nx
-			i0 := (j + f.color) & 1
-			if j == 0 || j == ny-1 || nx < 3 {
-				for i := i0; i < nx; i += 2 {
-					n := o + i
-					v := b[n]
-					if i > 0 {
-						v += ax[n-1] * x[n-1]
-					}
-					if i+1 < nx {
-						v += ax[n] * x[n+1]
-					}
-					if j > 0 {
-						v += ay[n-nx] * x[n-nx]
-					}
-					if j+1 < ny {
-						v += ay[n] * x[n+nx]
-					}
-					x[n] = v * inv[n]
-				}
-				continue
+	o := j * nx
+	i0 := (j + color) & 1
+	if j == 0 || j == ny-1 || nx < 3 {
+		for i := i0; i < nx; i += 2 {
+			n := o + i
+			v := b[n]
+			if i > 0 {
+				v += ax[n-1] * x[n-1]
 			}
-			i := i0
-			if i == 0 {
-				n := o
-				x[n] = (b[n] + ax[n]*x[n+1] + ay[n-nx]*x[n-nx] + ay[n]*x[n+nx]) * inv[n]
-				i = 2
+			if i+1 < nx {
+				v += ax[n] * x[n+1]
 			}
-			for ; i < nx-1; i += 2 {
-				n := o + i
-				x[n] = (b[n] + ax[n-1]*x[n-1] + ax[n]*x[n+1] + ay[n-nx]*x[n-nx] + ay[n]*x[n+nx]) * inv[n]
+			if j > 0 {
+				v += ay[n-nx] * x[n-nx]
 			}
-			if i == nx-1 {
-				n := o + i
-				x[n] = (b[n] + ax[n-1]*x[n-1] + ay[n-nx]*x[n-nx] + ay[n]*x[n+nx]) * inv[n]
+			if j+1 < ny {
+				v += ay[n] * x[n+nx]
 			}
+			x[n] = v * inv[n]
 		}
+		return
+	}
+	i := i0
+	if i == 0 {
+		n := o
+		x[n] = (b[n] + ax[n]*x[n+1] + ay[n-nx]*x[n-nx] + ay[n]*x[n+nx]) * inv[n]
+		i = 2
+	}
+	// Row slices let the compiler drop most bounds checks.
+	xr, xs, xn := x[o:o+nx], x[o-nx:o], x[o+nx:o+2*nx]
+	br, ir, axr, ays, ayr := b[o:o+nx], inv[o:o+nx], ax[o:o+nx], ay[o-nx:o], ay[o:o+nx]
+	for ; i < nx-1; i += 2 {
+		xr[i] = (br[i] + axr[i-1]*xr[i-1] + axr[i]*xr[i+1] + ays[i]*xs[i] + ayr[i]*xn[i]) * ir[i]
+	}
+	if i == nx-1 {
+		n := o + i
+		x[n] = (b[n] + ax[n-1]*x[n-1] + ay[n-nx]*x[n-nx] + ay[n]*x[n+nx]) * inv[n]
 	}
 }
 
@@ -267,54 +313,64 @@ func (f *fineLevel) restrictBlocks(lo, hi int) {
 	s := f.sys
 	nx, ny := f.nx, f.ny
 	r, dst, inv := f.opR, f.cb, f.k.invDiag
-	ax, ay := s.AX, s.AY
-	cst := f.ncx + 2
+	ax, ay, ix, iy := s.AX, s.AY, f.ix, f.iy
+	ncx, cst := f.ncx, f.ncx+2
 	blocks := min(64, f.ncy)
-	// xt and yt are an edge point's residual plus what its centre
-	// neighbours pass on to it.
-	xt := func(e, j int) float64 {
-		t := r[e]
-		if j > 0 {
-			t += ay[e-nx] * inv[e-nx] * r[e-nx]
-		}
-		if j+1 < ny {
-			t += ay[e] * inv[e+nx] * r[e+nx]
-		}
-		return t
-	}
-	yt := func(e, i int) float64 {
-		t := r[e]
-		if i > 0 {
-			t += ax[e-1] * inv[e-1] * r[e-1]
-		}
-		if i+1 < nx {
-			t += ax[e] * inv[e+1] * r[e+1]
-		}
-		return t
-	}
 	for blk := lo; blk < hi; blk++ {
 		J0, J1 := blk*f.ncy/blocks, (blk+1)*f.ncy/blocks
 		for J := J0; J < J1; J++ {
 			j := 2 * J
-			for I := 0; I < f.ncx; I++ {
+			hasN := j+1 < ny
+			for I := 0; I < ncx; I++ {
 				i := 2 * I
 				q := j*nx + i
+				k := I + ncx*J
 				v := r[q]
+				// An edge point passes on its residual plus what its two
+				// centre neighbours pass to it.
 				if i+1 < nx {
-					wW, _ := f.xEdge(i+1, j)
-					v += wW * xt(q+1, j)
+					e := q + 1
+					t := r[e]
+					if J > 0 {
+						t += ay[e-nx] * inv[e-nx] * r[e-nx]
+					}
+					if hasN {
+						t += ay[e] * inv[e+nx] * r[e+nx]
+					}
+					v += ax[q] * ix[k] * t
 				}
 				if I > 0 {
-					_, wE := f.xEdge(i-1, j)
-					v += wE * xt(q-1, j)
+					e := q - 1
+					t := r[e]
+					if J > 0 {
+						t += ay[e-nx] * inv[e-nx] * r[e-nx]
+					}
+					if hasN {
+						t += ay[e] * inv[e+nx] * r[e+nx]
+					}
+					v += ax[e] * ix[k-1] * t
 				}
-				if j+1 < ny {
-					wS, _ := f.yEdge(i, j+1)
-					v += wS * yt(q+nx, i)
+				if hasN {
+					e := q + nx
+					t := r[e]
+					if i > 0 {
+						t += ax[e-1] * inv[e-1] * r[e-1]
+					}
+					if i+1 < nx {
+						t += ax[e] * inv[e+1] * r[e+1]
+					}
+					v += ay[q] * iy[k] * t
 				}
 				if J > 0 {
-					_, wN := f.yEdge(i, j-1)
-					v += wN * yt(q-nx, i)
+					e := q - nx
+					t := r[e]
+					if i > 0 {
+						t += ax[e-1] * inv[e-1] * r[e-1]
+					}
+					if i+1 < nx {
+						t += ax[e] * inv[e+1] * r[e+1]
+					}
+					v += ay[e] * iy[k-ncx] * t
 				}
 				dst[(J+1)*cst+I+1] = v
 			}
@@ -329,48 +385,55 @@ func (f *fineLevel) prolong(x, xc []float64) {
 }
 
 func (f *fineLevel) prolongBlocks(lo, hi int) {
+	s := f.sys
 	nx, ny := f.nx, f.ny
-	x, xc := f.opX, f.cx
-	cst := f.ncx + 2
+	x, xc, inv := f.opX, f.cx, f.k.invDiag
+	ax, ay, ix, iy := s.AX, s.AY, f.ix, f.iy
+	ncx, cst := f.ncx, f.ncx+2
 	blocks := min(64, f.ncy)
-	// Interpolated values of the edge points.
-	ux := func(i, j, cn int) float64 {
-		wW, wE := f.xEdge(i, j)
-		return wW*xc[cn] + wE*xc[cn+1]
-	}
-	uy := func(i, j, cn int) float64 {
-		wS, wN := f.yEdge(i, j)
-		return wS*xc[cn] + wN*xc[cn+cst]
-	}
 	for blk := lo; blk < hi; blk++ {
 		J0, J1 := blk*f.ncy/blocks, (blk+1)*f.ncy/blocks
 		for J := J0; J < J1; J++ {
 			j := 2 * J
-			for I := 0; I < f.ncx; I++ {
+			hasN, hasNN := j+1 < ny, j+2 < ny
+			q0 := j * nx
+			c0 := (J+1)*cst + 1
+			k0 := ncx * J
+			// uw is the interpolated value of the y-edge point west of
+			// the current cell centre.
+			var uw float64
+			if hasN {
+				uw = (ay[q0]*xc[c0] + ay[q0+nx]*xc[c0+cst]) * iy[k0]
+			}
+			for I := 0; I < ncx; I++ {
 				i := 2 * I
-				q := j*nx + i
-				cn := (J+1)*cst + I + 1
-				x[q] += xc[cn]
+				q, cn, k := q0+i, c0+I, k0+I
+				v, ve := xc[cn], xc[cn+1]
+				x[q] += v
+				var us float64
 				if i+1 < nx {
-					x[q+1] += ux(i+1, j, cn)
+					us = (ax[q]*v + ax[q+1]*ve) * ix[k]
+					x[q+1] += us
 				}
-				if j+1 >= ny {
+				if !hasN {
 					continue
 				}
-				uw := uy(i, j+1, cn)
-				x[q+nx] += uw
+				e := q + nx
+				x[e] += uw
 				if i+1 >= nx {
 					continue
 				}
-				vw, ve, vs, vn := f.centre(i+1, j+1)
-				v := vw*uw + vs*ux(i+1, j, cn)
+				m := e + 1
+				var ue, un float64
 				if i+2 < nx {
-					v += ve * uy(i+2, j+1, cn+1)
+					ue = (ay[q+2]*ve + ay[e+2]*xc[cn+cst+1]) * iy[k+1]
 				}
-				if j+2 < ny {
-					v += vn * ux(i+1, j+2, cn+cst)
+				if hasNN {
+					qn := q + 2*nx
+					un = (ax[qn]*xc[cn+cst] + ax[qn+1]*xc[cn+cst+1]) * ix[k+ncx]
 				}
-				x[q+nx+1] += v
+				x[m] += (ax[e]*uw + ax[m]*ue + ay[m-nx]*us + ay[m]*un) * inv[m]
+				uw = ue
 			}
 		}
 	}
