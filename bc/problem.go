@@ -87,6 +87,24 @@ const (
 	// Fixed holds the side at a potential: either a named conductor's or a
 	// prescribed value or function.
 	Fixed
+	// Open stands for unbounded space beyond the side, with the potential
+	// zero at infinity. The side carries the asymptotic (Robin) condition
+	// ∂φ/∂n = −n·(n̂·r̂)·φ/R, where R = |r| is the distance from the centre
+	// of the far field (Problem.Far) and n the assumed decay power
+	// φ ∝ R⁻ⁿ. The condition is exact for a potential that decays like
+	// R⁻ⁿ about the centre, and its error falls off with the distance of the
+	// side from the geometry; put the side several body sizes away, with a
+	// graded far region (Mesh.Far, or ExtendOpen), rather than on a large
+	// uniform grid.
+	//
+	// The default decay n = 1 suits an axisymmetric body with net charge
+	// (the monopole 1/R, for example an isolated electrode) and a planar
+	// system with zero net charge (the 2-D dipole cos θ/R, for example a
+	// two-wire line). Use n = 2 for an axisymmetric system with zero net
+	// charge (a dipole). A planar system with net charge has no potential
+	// at infinity (it grows like ln R); an Open side then acts like a
+	// distant ground and is only a rough approximation.
+	Open
 )
 
 // String returns the kind's name.
@@ -96,6 +114,8 @@ func (k SideKind) String() string {
 		return "zero-flux"
 	case Fixed:
 		return "fixed"
+	case Open:
+		return "open"
 	}
 	return fmt.Sprintf("SideKind(%d)", int(k))
 }
@@ -138,6 +158,86 @@ type Problem struct {
 	Regions    []Region
 	Charges    []PointCharge
 	Sides      [4]Side
+	// Far, when not nil, sets the centre and decay of the far field that
+	// Open sides assume. Nil means DefaultFar.
+	Far *FarField
+}
+
+// FarField describes the far field assumed by Open sides.
+type FarField struct {
+	// X and Y locate the centre of the far-field expansion. In an
+	// axisymmetric problem X must be 0 (the centre lies on the axis).
+	X, Y float64
+	// Decay is the power n in φ ∝ R⁻ⁿ. Zero means 1.
+	Decay float64
+}
+
+// DefaultFar returns the far field Open sides assume when Problem.Far is
+// nil: decay 1 about the centre of the bounding box of the geometry (every
+// region and point charge, clipped to the domain), after mirroring that box
+// across every zero-flux side it touches, since such a side is a symmetry
+// plane. In an axisymmetric problem the centre lies on the axis, at the
+// middle of the box along z. Without any geometry the centre is that of the
+// domain.
+func (p *Problem) DefaultFar() FarField {
+	d := p.Domain
+	x0, y0, x1, y1 := math.Inf(1), math.Inf(1), math.Inf(-1), math.Inf(-1)
+	grow := func(a0, b0, a1, b1 float64) {
+		x0, y0 = math.Min(x0, math.Max(a0, d.X0)), math.Min(y0, math.Max(b0, d.Y0))
+		x1, y1 = math.Max(x1, math.Min(a1, d.X1)), math.Max(y1, math.Min(b1, d.Y1))
+	}
+	for _, r := range p.Regions {
+		if r.Shape == nil {
+			continue
+		}
+		grow(r.Shape.Bounds())
+	}
+	for _, q := range p.Charges {
+		grow(q.X, q.Y, q.X, q.Y)
+	}
+	if !(x0 <= x1 && y0 <= y1) {
+		x0, y0, x1, y1 = d.X0, d.Y0, d.X1, d.Y1
+	}
+	tol := 1e-9 * math.Max(d.X1-d.X0, d.Y1-d.Y0)
+	if p.Sides[Left].Kind == ZeroFlux && x0-d.X0 <= tol {
+		x0 = d.X0 - (x1 - d.X0)
+	}
+	if p.Sides[Right].Kind == ZeroFlux && d.X1-x1 <= tol {
+		x1 = d.X1 + (d.X1 - x0)
+	}
+	if p.Sides[Bottom].Kind == ZeroFlux && y0-d.Y0 <= tol {
+		y0 = d.Y0 - (y1 - d.Y0)
+	}
+	if p.Sides[Top].Kind == ZeroFlux && d.Y1-y1 <= tol {
+		y1 = d.Y1 + (d.Y1 - y0)
+	}
+	f := FarField{X: 0.5 * (x0 + x1), Y: 0.5 * (y0 + y1), Decay: 1}
+	if p.Metric == grid.Axisymmetric {
+		f.X = 0
+	}
+	return f
+}
+
+// far returns the far field Open sides use.
+func (p *Problem) far() FarField {
+	if p.Far == nil {
+		return p.DefaultFar()
+	}
+	f := *p.Far
+	if f.Decay == 0 {
+		f.Decay = 1
+	}
+	return f
+}
+
+// hasOpen reports whether any side is Open.
+func (p *Problem) hasOpen() bool {
+	for _, s := range p.Sides {
+		if s.Kind == Open {
+			return true
+		}
+	}
+	return false
 }
 
 // ConductorIndex returns the index of the named conductor, or −1.
@@ -242,8 +342,22 @@ func (p *Problem) Validate() error {
 				}
 				anyFixed = true
 			}
+		case Open:
+			if p.Metric == grid.Axisymmetric && s == Left && d.X0 == 0 {
+				return fmt.Errorf("%w: the left side is the axis r = 0; it cannot be open, so make it zero-flux", ErrProblem)
+			}
+			// Infinity is at 0 V.
+			anyFixed = true
 		default:
 			return fmt.Errorf("%w: the %s side has unknown kind %d", ErrProblem, SideNames[s], int(side.Kind))
+		}
+	}
+	if f := p.Far; f != nil {
+		if !finite(f.X, f.Y, f.Decay) || f.Decay < 0 {
+			return fmt.Errorf("%w: the far field needs a finite centre and a decay power ≥ 0 (0 means 1), got (%g, %g) and %g", ErrProblem, f.X, f.Y, f.Decay)
+		}
+		if p.Metric == grid.Axisymmetric && f.X != 0 {
+			return fmt.Errorf("%w: in an axisymmetric problem the far-field centre must lie on the axis, but it is at r = %g", ErrProblem, f.X)
 		}
 	}
 	for k, c := range p.Conductors {

@@ -67,6 +67,23 @@ type Map struct {
 	// permittivity applies at the cell centre, or −1 for the background.
 	// Cells whose centre lies inside a conductor hold the region beneath it.
 	CellRegion []int32
+	// EpsX and EpsY are the relative permittivities the assembly uses for
+	// flux along X and along Y, two per cell: EpsX[2c] for the lower half
+	// of cell c along Y (the half next to its lower row of nodes, crossed
+	// by the X-links of that row) and EpsX[2c+1] for the upper half;
+	// EpsY[2c] for the left half along X and EpsY[2c+1] for the right
+	// half. In a cell that a dielectric interface crosses each value is the
+	// arithmetic mean, across the half-cell, of the harmonic mean of ε along
+	// lines parallel to the flux, which is exact for interfaces along
+	// either axis (see the package documentation). Elsewhere both equal
+	// Eps. Both are nil when no cell holds more than one permittivity; then
+	// Eps serves for every direction.
+	EpsX, EpsY []float64
+	// Sides are the problem's boundary conditions.
+	Sides [4]Side
+	// Far is the far field assumed by Open sides (Problem.Far or
+	// Problem.DefaultFar).
+	Far FarField
 	// Surface lists every point where a conductor surface cuts a link
 	// between a free node and a conductor node, with the surface normal
 	// there, in order of the free node.
@@ -177,6 +194,8 @@ func Rasterize(p *Problem, g *grid.Grid, opt *Options) (*Map, error) {
 		Eps:        make([]float64, g.Cells()),
 		Regions:    append([]Region(nil), p.Regions...),
 		CellRegion: make([]int32, g.Cells()),
+		Sides:      p.Sides,
+		Far:        p.far(),
 		CutX:       make([]float64, g.Len()),
 		CutY:       make([]float64, g.Len()),
 	}
@@ -489,6 +508,7 @@ func (r *rasterizer) cells(m *Map, states []pointState, samples int) {
 		m.Rho = make([]float64, g.Cells())
 	}
 	inv := 1 / float64(samples)
+	var mixedEps []int
 	for j := 0; j+1 < ny; j++ {
 		for i := 0; i+1 < nx; i++ {
 			c := j*cx + i
@@ -506,12 +526,29 @@ func (r *rasterizer) cells(m *Map, states []pointState, samples int) {
 			var esum, rsum float64
 			var ne int
 			var under float64
+			first, several := math.NaN(), false
+			note := func(s pointState) {
+				if s.cond >= 0 {
+					return
+				}
+				e := r.eps(s)
+				if math.IsNaN(first) {
+					first = e
+				} else if e != first {
+					several = true
+				}
+			}
+			note(s0)
+			note(s1)
+			note(s2)
+			note(s3)
 			for b := 0; b < samples; b++ {
 				y := ys[j] + (float64(b)+0.5)*inv*(ys[j+1]-ys[j])
 				for a := 0; a < samples; a++ {
 					x := xs[i] + (float64(a)+0.5)*inv*(xs[i+1]-xs[i])
 					s := r.state(x, y)
 					under = r.eps(s)
+					note(s)
 					if s.cond < 0 {
 						esum += under
 						ne++
@@ -524,10 +561,25 @@ func (r *rasterizer) cells(m *Map, states []pointState, samples int) {
 			} else {
 				m.Eps[c] = under
 			}
+			if several {
+				mixedEps = append(mixedEps, c)
+			}
 			if hasRho {
 				m.Rho[c] = rsum * inv * inv
 			}
 		}
+	}
+	if len(mixedEps) == 0 {
+		return
+	}
+	m.EpsX = make([]float64, 2*g.Cells())
+	m.EpsY = make([]float64, 2*g.Cells())
+	for c, e := range m.Eps {
+		m.EpsX[2*c], m.EpsX[2*c+1] = e, e
+		m.EpsY[2*c], m.EpsY[2*c+1] = e, e
+	}
+	for _, c := range mixedEps {
+		r.directional(m, c%cx, c/cx, c, m.Eps[c], samples)
 	}
 }
 

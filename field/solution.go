@@ -36,7 +36,8 @@ type Solution struct {
 	// (floating conductors); nil otherwise.
 	Capacitance [][]float64
 
-	ex, ey []float64 // cached nodal field for FieldAt
+	ex, ey []float64     // cached nodal field for FieldAt
+	surf   *surfaceCache // potential corrected near conductors (surface.go)
 }
 
 // Solve rasterises p onto g, assembles and solves it. Floating conductors
@@ -173,7 +174,8 @@ func Charges(sys *solve.System, phi, v []float64) []float64 {
 func (sol *Solution) Charges() []float64 { return Charges(sol.Sys, sol.Phi, sol.V) }
 
 // Energy returns the stored electrostatic energy ½·Σ g·(Δφ)² over every
-// link of the operator: J/m in a planar problem, J in an axisymmetric one.
+// link of the operator, plus ½·Σ Far·φ² for the field beyond open sides:
+// J/m in a planar problem, J in an axisymmetric one.
 func Energy(sys *solve.System, phi []float64) float64 {
 	nx, ny := sys.Nx, sys.Ny
 	var w float64
@@ -210,6 +212,9 @@ func Energy(sys *solve.System, phi []float64) float64 {
 			d := phi[l.A] - phi[l.B]
 			w += l.G * d * d
 		}
+	}
+	for n, f := range sys.Far {
+		w += f * phi[n] * phi[n]
 	}
 	return 0.5 * w
 }

@@ -1,10 +1,12 @@
 package field
 
 import (
+	"context"
 	"fmt"
 	"math"
 
 	"github.com/phigrid/phigrid/bc"
+	"github.com/phigrid/phigrid/grid"
 	"github.com/phigrid/phigrid/solve"
 )
 
@@ -24,44 +26,133 @@ type Peak struct {
 	Where       string
 }
 
+// surfaceCache holds the potential corrected near conductor surfaces.
+type surfaceCache struct {
+	phi     []float64
+	refined bool
+}
+
 // SurfaceField returns points on the surface of conductor k with the
-// normal field and the surface charge density there, one point for every
-// grid link that joins a free node to the conductor, at the point where the
-// conductor surface cuts the link. It returns nil when k is not a conductor
-// index or the conductor has no free neighbour.
+// normal field and the surface charge density there: one point for every
+// grid link that joins a free node to the conductor and crosses the surface
+// steeply enough (see below), at the point where the surface cuts the
+// link, in grid order. It returns nil when k is not a conductor index or
+// the conductor has no free neighbour. The first call computes a locally
+// corrected potential and caches it, so a Solution is not safe for
+// concurrent use.
 //
 // # Method
 //
 // The conductor surface is an equipotential, so the tangential derivative
-// of φ vanishes there and ∇φ = (∂φ/∂n)·n. Along the link, with s measured
+// of φ vanishes there and ∇φ = (∂φ/∂n)·n. Along a link, with s measured
 // from the surface point into the dielectric in direction d, the potential
-// is known at three points: the conductor potential at s = 0, the free node
-// at s₁ = θ·h (θ the cut fraction) and the next point along the same grid
-// line at s₂ (the next node, or the next conductor surface if the link
-// beyond is cut too). The quadratic through them gives ∂φ/∂s at s = 0 with
-// a truncation error of O(h²), and En = −(∂φ/∂s)/(n·d). Points where the
-// link runs almost along the surface (|n·d| < 0.35) would amplify the
-// error of ∂φ/∂s and are left out; the links of the other axis cover
-// those parts of the surface. Where the line has no further point (the
-// free node lies on the outer boundary) the two-point difference is used.
+// is known at three points: the conductor potential at s = 0, the free
+// node at s₁ = θ·h (θ the cut fraction) and the next point along the same
+// grid line at s₂ (the next node, or the next conductor surface if the
+// link beyond is cut too). The quadratic through them gives the one-sided
+// derivative ∂φ/∂s at s = 0 with an O(h²) truncation error, and
+// En = −(∂φ/∂s)/(n·d). Links that run obliquely to the surface
+// (|n·d| < 0.7) would amplify the error and are left out; the links of the
+// other axis cover those parts of the surface. Where the line has no
+// further point (the free node lies on the outer boundary) the two-point
+// difference is used. The normal comes from the geometry (bc.Map.Surface);
+// maps without it fall back to the link direction.
 //
-// The normal comes from the geometry of the rasterised problem when the
-// map carries it (bc.Map.Surface) and from the link direction otherwise.
+// The one-sided difference needs potentials next to the surface that are
+// accurate beyond the O(h²) of the solve: the symmetric cut-link operator
+// is only first-order consistent at the nodes next to a curved surface, so
+// its nodal errors there are O(h²) but irregular, and a difference of them
+// is only first-order accurate. SurfaceField therefore first relaxes the
+// free nodes within a few links of a conductor to the Shortley–Weller
+// equations (which are second-order consistent there), holding the rest
+// of the solution fixed. That costs no solve and cuts the error several
+// times. RefineSurface goes further with one more solve, after which the
+// surface field converges at second order.
 func (sol *Solution) SurfaceField(k int) []SurfacePoint {
 	m := sol.Map
 	if k < 0 || k >= len(m.Conductors) {
 		return nil
 	}
+	phi := sol.surfacePhi()
 	var out []SurfacePoint
 	sol.eachSurfaceLink(func(l surfaceLink) {
 		if l.cond != k {
 			return
 		}
-		if p, ok := sol.surfacePoint(l); ok {
+		if p, ok := sol.surfacePoint(l, phi); ok {
 			out = append(out, p)
 		}
 	})
 	return out
+}
+
+// RefineSurface makes the surface fields of SurfaceField, PeakSurfaceField
+// and PeakRegionFields converge at second order, at the cost of one more
+// solve with a solver set up from set (nil means the defaults; a zero
+// tolerance means 1e-6, relative to the size of the correction). It
+// corrects the potential near conductor surfaces by one step of defect
+// correction toward the Shortley–Weller discretisation, between two local
+// relaxations, and caches the result. Phi, the charges, the energy and the
+// capacitance matrix are not changed: they keep the symmetric operator and
+// its exact discrete Gauss law.
+func (sol *Solution) RefineSurface(ctx context.Context, set *solve.Settings) error {
+	if sol.surf != nil && sol.surf.refined {
+		return nil
+	}
+	var o solve.Settings
+	if set != nil {
+		o = *set
+	}
+	if o.Tol == 0 {
+		o.Tol = 1e-6
+	}
+	phi := append([]float64(nil), sol.Phi...)
+	band := sol.bandNodes(surfaceBand)
+	sol.relaxBand(phi, band)
+	r := make([]float64, len(phi))
+	sol.correctedResidual(r, phi)
+	var rn float64
+	for _, v := range r {
+		rn = math.Max(rn, math.Abs(v))
+	}
+	if rn > 0 {
+		s, err := solve.NewSolver(sol.Sys, &o)
+		if err != nil {
+			return fmt.Errorf("field: surface correction: %w", err)
+		}
+		defer s.Close()
+		d := make([]float64, len(phi))
+		res, err := s.Solve(ctx, r, d)
+		if res != nil {
+			sol.Results = append(sol.Results, res)
+		}
+		if err != nil {
+			return fmt.Errorf("field: surface correction: %w", err)
+		}
+		for i, f := range sol.Sys.Fixed {
+			if !f {
+				phi[i] += d[i]
+			}
+		}
+		sol.relaxBand(phi, band)
+	}
+	sol.surf = &surfaceCache{phi: phi, refined: true}
+	return nil
+}
+
+// surfaceBand is the depth, in links, of the band of free nodes next to
+// conductors that the local relaxation corrects.
+const surfaceBand = 5
+
+// surfacePhi returns the potential corrected near conductor surfaces,
+// computing the local correction on first use.
+func (sol *Solution) surfacePhi() []float64 {
+	if sol.surf == nil || len(sol.surf.phi) != len(sol.Phi) {
+		phi := append([]float64(nil), sol.Phi...)
+		sol.relaxBand(phi, sol.bandNodes(surfaceBand))
+		sol.surf = &surfaceCache{phi: phi}
+	}
+	return sol.surf.phi
 }
 
 // surfaceLink is one link from a free node to a conductor node.
@@ -84,12 +175,11 @@ func (sol *Solution) eachSurfaceLink(f func(surfaceLink)) {
 	nx, ny := g.Nx(), g.Ny()
 	if len(m.Surface) > 0 {
 		for _, c := range m.Surface {
-			l := surfaceLink{
+			f(surfaceLink{
 				free: int(c.Free), cnode: int(c.Node), cond: int(m.Cond[c.Node]),
 				axis: int(c.Axis), dir: int(c.Dir), theta: c.Frac,
 				x: c.X, y: c.Y, nx: c.Nx, ny: c.Ny, eps: c.EpsR, geom: true,
-			}
-			f(l)
+			})
 		}
 		return
 	}
@@ -121,15 +211,16 @@ func (sol *Solution) eachSurfaceLink(f func(surfaceLink)) {
 }
 
 // minNormalDot is the smallest |n·d| for which a link's derivative is
-// turned into a normal field.
-const minNormalDot = 0.35
+// turned into a normal field. Every direction has a grid axis within 45°,
+// so 0.7 < cos 45° leaves no part of a surface uncovered.
+const minNormalDot = 0.7
 
-// surfacePoint evaluates the normal field at the surface point of l.
-func (sol *Solution) surfacePoint(l surfaceLink) (SurfacePoint, bool) {
-	g, m, phi := sol.Grid, sol.Map, sol.Phi
+// surfacePoint evaluates the normal field at the surface point of l from
+// the potential phi.
+func (sol *Solution) surfacePoint(l surfaceLink, phi []float64) (SurfacePoint, bool) {
+	g, m := sol.Grid, sol.Map
 	nx := g.Nx()
 	xs, ys := g.X(), g.Y()
-	// Position along the axis of the link.
 	var a []float64
 	var p, st, n int
 	var cut []float64
@@ -138,23 +229,17 @@ func (sol *Solution) surfacePoint(l surfaceLink) (SurfacePoint, bool) {
 	} else {
 		a, p, st, n, cut = ys, l.free/nx, nx, g.Ny(), m.CutY
 	}
-	// d points from the conductor into the dielectric: opposite to dir.
+	// d points from the conductor into the dielectric, against dir.
 	back := -l.dir
 	h1 := math.Abs(a[p+l.dir] - a[p])
 	s1 := l.theta * h1
-	f0 := sol.V[l.cond]
-	f1 := phi[l.free]
-	// The surface point.
 	sx, sy := xs[l.free%nx], ys[l.free/nx]
-	if l.axis == 0 {
-		sx += float64(l.dir) * s1
-	} else {
-		sy += float64(l.dir) * s1
-	}
 	dx, dy := 0.0, 0.0
 	if l.axis == 0 {
+		sx += float64(l.dir) * s1
 		dx = float64(back)
 	} else {
+		sy += float64(l.dir) * s1
 		dy = float64(back)
 	}
 	nvx, nvy := dx, dy
@@ -163,27 +248,34 @@ func (sol *Solution) surfacePoint(l surfaceLink) (SurfacePoint, bool) {
 		sx, sy, nvx, nvy, eps = l.x, l.y, l.nx, l.ny, l.eps
 	}
 	dot := nvx*dx + nvy*dy
-	if math.Abs(dot) < minNormalDot {
+	if math.Abs(dot) < minNormalDot || s1 <= 0 {
 		return SurfacePoint{}, false
 	}
-	var dphi float64
-	q := p + back
-	if q >= 0 && q < n {
-		h2 := math.Abs(a[q] - a[p])
+	// Three points along the line: the surface, the free node, and the
+	// next node or conductor surface.
+	ss := [3]float64{0, s1}
+	fs := [3]float64{sol.V[l.cond], phi[l.free]}
+	np := 2
+	if q := p + back; q >= 0 && q < n {
+		h := math.Abs(a[q] - a[p])
 		nb := l.free + back*st
-		// Link from the free node to the next one, in index order.
-		lk := l.free
+		lk := l.free // the link free→nb, indexed by its lower node
 		if back < 0 {
 			lk = nb
 		}
-		s2 := s1 + h2
+		ss[2] = s1 + h
 		if m.Kind[nb] == bc.OnConductor {
-			s2 = s1 + cut[lk]*h2
+			ss[2] = s1 + cut[lk]*h
 		}
-		f2 := phi[nb]
-		dphi = ((f1-f0)*s2*s2 - (f2-f0)*s1*s1) / (s1 * s2 * (s2 - s1))
+		fs[2] = phi[nb]
+		np = 3
+	}
+	var dphi float64
+	if np == 3 && ss[2] > ss[1] {
+		s1, s2 := ss[1], ss[2]
+		dphi = ((fs[1]-fs[0])*s2*s2 - (fs[2]-fs[0])*s1*s1) / (s1 * s2 * (s2 - s1))
 	} else {
-		dphi = (f1 - f0) / s1
+		dphi = (fs[1] - fs[0]) / s1
 	}
 	en := -dphi / dot
 	if eps == 0 {
@@ -243,16 +335,19 @@ func (sol *Solution) PeakSurfaceField(k int) Peak {
 }
 
 // PeakRegionFields returns the largest field magnitude in every dielectric
-// material of the problem: one Peak per region that sets a permittivity
-// (dielectric regions, and charge regions that give one), merging regions
-// of the same name, and one for the background, in order of first
-// appearance with the background first. Regions that cover no cell are
-// left out.
+// material of the problem: one Peak for the background, then one per
+// region that sets a permittivity (dielectric regions, and charge regions
+// that give one), merging regions of the same name, in order of first
+// appearance. Unnamed regions are called "region N" after their index.
+// Materials that cover no cell are left out.
 //
 // The field is evaluated at the centres of cells whose four corners are
 // free or prescribed nodes (the gradient of the bilinear potential, second
 // order at the centre) and at the conductor surface points of
-// SurfaceField, which are attributed to the material at the surface.
+// SurfaceField, which are attributed to the material just outside the
+// surface. Next to a dielectric interface the cell-centre values lie up to
+// half a cell from the interface, so a field that peaks on an interface is
+// underestimated by O(h).
 func (sol *Solution) PeakRegionFields() []Peak {
 	m, g := sol.Map, sol.Grid
 	names, slot := sol.regionSlots()
@@ -272,7 +367,7 @@ func (sol *Solution) PeakRegionFields() []Peak {
 				m.Kind[n0+nx] == bc.OnConductor || m.Kind[n0+nx+1] == bc.OnConductor {
 				continue
 			}
-			s := slot(m.CellRegion, c)
+			s := slot(c)
 			seen[s] = true
 			if v := math.Hypot(ex[c], ey[c]); v > peaks[s].Value {
 				peaks[s].Value = v
@@ -281,15 +376,16 @@ func (sol *Solution) PeakRegionFields() []Peak {
 			}
 		}
 	}
+	lo, _ := g.MinMaxStep()
 	for k := range m.Conductors {
 		for _, p := range sol.SurfaceField(k) {
 			// The material just outside the surface point.
-			ci, cj, _, _, ok := g.Locate(p.X+1e-6*p.Nx*cellScale(g), p.Y+1e-6*p.Ny*cellScale(g))
+			ci, cj, _, _, ok := g.Locate(p.X+1e-3*lo*p.Nx, p.Y+1e-3*lo*p.Ny)
 			if !ok {
 				continue
 			}
 			ci, cj = min(ci, nx-2), min(cj, ny-2)
-			s := slot(m.CellRegion, g.CellIndex(ci, cj))
+			s := slot(g.CellIndex(ci, cj))
 			seen[s] = true
 			if v := math.Abs(p.En); v > peaks[s].Value {
 				peaks[s].Value, peaks[s].X, peaks[s].Y = v, p.X, p.Y
@@ -305,22 +401,15 @@ func (sol *Solution) PeakRegionFields() []Peak {
 	return out
 }
 
-// cellScale returns the smallest node spacing of the grid.
-func cellScale(g interface{ MinMaxStep() (float64, float64) }) float64 {
-	lo, _ := g.MinMaxStep()
-	return lo
-}
-
 // regionSlots returns the material names (background first, then every
-// region that sets ε, merged by name) and a function mapping a cell's
-// region index to its slot.
-func (sol *Solution) regionSlots() ([]string, func(reg []int32, c int) int) {
+// region that sets ε, merged by name) and a function mapping a cell to
+// its slot.
+func (sol *Solution) regionSlots() ([]string, func(c int) int) {
 	m := sol.Map
 	names := []string{"background"}
 	idx := map[string]int{"background": 0}
 	regSlot := make([]int, len(m.Regions))
 	for n, r := range m.Regions {
-		regSlot[n] = 0
 		if r.Kind == bc.Dielectric || (r.Kind == bc.Charge && r.EpsR > 0) {
 			name := r.Name
 			if name == "" {
@@ -335,10 +424,154 @@ func (sol *Solution) regionSlots() ([]string, func(reg []int32, c int) int) {
 			regSlot[n] = s
 		}
 	}
-	return names, func(reg []int32, c int) int {
-		if reg == nil || reg[c] < 0 || int(reg[c]) >= len(regSlot) {
+	return names, func(c int) int {
+		if m.CellRegion == nil || m.CellRegion[c] < 0 || int(m.CellRegion[c]) >= len(regSlot) {
 			return 0
 		}
-		return regSlot[reg[c]]
+		return regSlot[m.CellRegion[c]]
+	}
+}
+
+// bandNodes returns the free nodes within depth links of a conductor
+// node, nearest first.
+func (sol *Solution) bandNodes(depth int) []int {
+	g, m := sol.Grid, sol.Map
+	nx, ny := g.Nx(), g.Ny()
+	in := make(map[int]bool)
+	var front, out []int
+	for n, k := range m.Kind {
+		if k == bc.OnConductor {
+			front = append(front, n)
+		}
+	}
+	for d := 0; d < depth && len(front) > 0; d++ {
+		var next []int
+		for _, n := range front {
+			i, j := n%nx, n/nx
+			for _, nb := range [4][3]int{{i + 1, j, n + 1}, {i - 1, j, n - 1}, {i, j + 1, n + nx}, {i, j - 1, n - nx}} {
+				if nb[0] < 0 || nb[0] >= nx || nb[1] < 0 || nb[1] >= ny {
+					continue
+				}
+				c := nb[2]
+				if m.Kind[c] != bc.Free || in[c] {
+					continue
+				}
+				in[c] = true
+				next = append(next, c)
+			}
+		}
+		out = append(out, next...)
+		front = next
+	}
+	return out
+}
+
+// swRow gathers the Shortley–Weller form of the row of free node n for
+// potential phi: the operator row is sx·Σₓ g·(φ_nb − φ) + sy·Σ_y g·(φ_nb − φ)
+// + q − far·φ, where sx and sy rescale each axis from the full control
+// volume to the one bounded by the surface points of cut links. Without
+// cut links sx = sy = 1 and the row is the symmetric one.
+type swRow struct {
+	sum, diag [2]float64 // Σ g·φ_nb and Σ g per axis
+	sx, sy    float64
+	q, far    float64
+	cut       bool
+}
+
+func (sol *Solution) swRowAt(n int, phi []float64) swRow {
+	g, m, sys := sol.Grid, sol.Map, sol.Sys
+	nx, ny := g.Nx(), g.Ny()
+	xs, ys := g.X(), g.Y()
+	i, j := n%nx, n/nx
+	var w swRow
+	// Half-lengths of the control volume per axis and side, full and
+	// shortened by cuts.
+	var full, short [2][2]float64
+	add := func(axis, side, c int, gl, h, frac float64) {
+		w.sum[axis] += gl * phi[c]
+		w.diag[axis] += gl
+		full[axis][side] = h / 2
+		short[axis][side] = h / 2
+		if m.Kind[c] == bc.OnConductor && frac < 1 {
+			short[axis][side] = frac * h / 2
+			w.cut = true
+		}
+	}
+	if i+1 < nx {
+		add(0, 1, n+1, sys.LinkX[n], xs[i+1]-xs[i], m.CutX[n])
+	}
+	if i > 0 {
+		add(0, 0, n-1, sys.LinkX[n-1], xs[i]-xs[i-1], m.CutX[n-1])
+	}
+	if j+1 < ny {
+		add(1, 1, n+nx, sys.LinkY[n], ys[j+1]-ys[j], m.CutY[n])
+	}
+	if j > 0 {
+		add(1, 0, n-nx, sys.LinkY[n-nx], ys[j]-ys[j-1], m.CutY[n-nx])
+	}
+	w.q = sys.Charge[n]
+	if sys.Far != nil {
+		w.far = sys.Far[n]
+	}
+	w.sx, w.sy = 1, 1
+	if w.cut {
+		radial := g.Metric() == grid.Axisymmetric
+		w.sx = dualMeasure(xs[i], full[0], radial) / dualMeasure(xs[i], short[0], radial)
+		w.sy = dualMeasure(ys[j], full[1], false) / dualMeasure(ys[j], short[1], false)
+	}
+	return w
+}
+
+// dualMeasure returns the measure of the interval [x − h[0], x + h[1]]:
+// its length, or in an axisymmetric grid the annulus area π(r₁² − r₀²).
+func dualMeasure(x float64, h [2]float64, radial bool) float64 {
+	if radial {
+		r0 := math.Max(x-h[0], 0)
+		r1 := x + h[1]
+		return math.Pi * (r1*r1 - r0*r0)
+	}
+	return h[0] + h[1]
+}
+
+// relaxBand relaxes the band nodes of phi to the Shortley–Weller equations
+// by Gauss–Seidel sweeps, holding every other node fixed.
+func (sol *Solution) relaxBand(phi []float64, band []int) {
+	for sweep := 0; sweep < 500; sweep++ {
+		var change, scale float64
+		for _, n := range band {
+			w := sol.swRowAt(n, phi)
+			d := w.sx*w.diag[0] + w.sy*w.diag[1] + w.far
+			if d == 0 {
+				continue
+			}
+			v := (w.sx*w.sum[0] + w.sy*w.sum[1] + w.q) / d
+			change = math.Max(change, math.Abs(v-phi[n]))
+			scale = math.Max(scale, math.Abs(v))
+			phi[n] = v
+		}
+		if change <= 1e-14*scale {
+			return
+		}
+	}
+}
+
+// correctedResidual writes into r the residual of phi in the operator that
+// uses Shortley–Weller rows next to conductors and the symmetric rows
+// elsewhere, each scaled to the symmetric row's diagonal, so that solving
+// the symmetric system for it gives a defect-correction step. Fixed rows
+// get zero.
+func (sol *Solution) correctedResidual(r, phi []float64) {
+	m := sol.Map
+	clear(r)
+	for n := range phi {
+		if m.Kind[n] != bc.Free {
+			continue
+		}
+		w := sol.swRowAt(n, phi)
+		res := w.sx*(w.sum[0]-w.diag[0]*phi[n]) + w.sy*(w.sum[1]-w.diag[1]*phi[n]) + w.q - w.far*phi[n]
+		if w.cut {
+			res *= (w.diag[0] + w.diag[1] + w.far) / (w.sx*w.diag[0] + w.sy*w.diag[1] + w.far)
+		}
+		r[n] = res
 	}
 }

@@ -3,6 +3,7 @@ package solve
 import (
 	"errors"
 	"fmt"
+	"math"
 	"sort"
 
 	"github.com/phigrid/phigrid/bc"
@@ -71,6 +72,16 @@ type System struct {
 	PrescribedLinks []Link
 	// Map is the rasterised problem the system came from.
 	Map *bc.Map
+	// LinkX and LinkY hold the coupling of every link, to the +X and +Y
+	// neighbour, including links that end on a fixed node (which AX and
+	// AY leave out); zero on the last column and row. Post-processing
+	// reads them to evaluate fluxes and local stencils.
+	LinkX, LinkY []float64
+	// Far is, for every free node on an Open side, its coupling to the
+	// far region at 0 V (infinity), from the asymptotic boundary
+	// condition; it is already part of Diag. Nil when no side is open.
+	// The flux Far[n]·φ[n] leaves the domain through the open sides.
+	Far []float64
 }
 
 // Len returns the number of rows, Nx·Ny.
@@ -147,6 +158,8 @@ func Assemble(m *bc.Map) (*System, error) {
 		Parts:      make([]Part, len(m.Conductors)),
 		Nodes:      make([][]int32, len(m.Conductors)),
 		Map:        m,
+		LinkX:      make([]float64, n),
+		LinkY:      make([]float64, n),
 	}
 	anyFixed := false
 	for i, k := range m.Kind {
@@ -160,7 +173,13 @@ func Assemble(m *bc.Map) (*System, error) {
 			}
 		}
 	}
-	if !anyFixed {
+	open := false
+	for _, sd := range m.Sides {
+		if sd.Kind == bc.Open {
+			open = true
+		}
+	}
+	if !anyFixed && !open {
 		return nil, fmt.Errorf("%w: fix a side or a conductor at a potential", ErrNoFixed)
 	}
 	type entry struct {
@@ -170,6 +189,14 @@ func Assemble(m *bc.Map) (*System, error) {
 	parts := make([][]entry, len(m.Conductors))
 	cx := nx - 1
 	eps := m.Eps
+	// Permittivity of the half-cells a link crosses: lower/upper halves
+	// for X-links, left/right halves for Y-links.
+	epsX := func(c, half int) float64 { return eps[c] }
+	epsY := epsX
+	if m.EpsX != nil && m.EpsY != nil {
+		epsX = func(c, half int) float64 { return m.EpsX[2*c+half] }
+		epsY = func(c, half int) float64 { return m.EpsY[2*c+half] }
+	}
 	link := func(a, b int, gl float64) {
 		fa, fb := s.Fixed[a], s.Fixed[b]
 		switch {
@@ -197,12 +224,13 @@ func Assemble(m *bc.Map) (*System, error) {
 			if i+1 < nx {
 				var w float64
 				if j > 0 {
-					w += eps[(j-1)*cx+i] * ylo
+					w += epsX((j-1)*cx+i, 1) * ylo
 				}
 				if j+1 < ny {
-					w += eps[j*cx+i] * yhi
+					w += epsX(j*cx+i, 0) * yhi
 				}
 				gl := Eps0 * g.LinkX(i) * w / m.CutX[a]
+				s.LinkX[a] = gl
 				if !s.Fixed[a] && !s.Fixed[a+1] {
 					s.AX[a] = gl
 				}
@@ -211,12 +239,13 @@ func Assemble(m *bc.Map) (*System, error) {
 			if j+1 < ny {
 				var w float64
 				if i > 0 {
-					w += eps[j*cx+i-1] * xlo
+					w += epsY(j*cx+i-1, 1) * xlo
 				}
 				if i+1 < nx {
-					w += eps[j*cx+i] * xhi
+					w += epsY(j*cx+i, 0) * xhi
 				}
 				gl := Eps0 * g.LinkY(j) * w / m.CutY[a]
+				s.LinkY[a] = gl
 				if !s.Fixed[a] && !s.Fixed[a+nx] {
 					s.AY[a] = gl
 				}
@@ -245,6 +274,12 @@ func Assemble(m *bc.Map) (*System, error) {
 			if m.Point != nil {
 				s.Charge[a] += m.Point[a]
 			}
+		}
+	}
+	if open {
+		s.Far = farCouplings(m, s.Fixed)
+		for i, f := range s.Far {
+			s.Diag[i] += f
 		}
 	}
 	for i := range s.Diag {
@@ -283,4 +318,87 @@ func (s *System) fixedCoupling(a, b int, gl float64, addPart func(k int32)) {
 	}
 	s.Prescribed[a] += gl * m.Value[b]
 	s.PrescribedLinks = append(s.PrescribedLinks, Link{int32(a), int32(b), gl})
+}
+
+// farCouplings returns the coupling of every free node on an Open side to
+// the far region. The asymptotic condition ∂φ/∂n = −n·(n̂·r̂)·φ/R turns the
+// outward flux through a boundary face of measure A into
+// ε₀·ε_r·A·n·(n̂·r̂)/R·φ, a coupling to 0 V that adds to the node's diagonal
+// and keeps the operator symmetric positive definite (it is never
+// negative: a side facing away from the centre gets none). For a potential
+// that decays exactly like R⁻ⁿ about the centre, ½·Σ Far·φ² is the energy
+// of the field outside the domain.
+func farCouplings(m *bc.Map, fixed []bool) []float64 {
+	g := m.Grid
+	nx, ny := g.Nx(), g.Ny()
+	cx := nx - 1
+	xs, ys := g.X(), g.Y()
+	x0, y0, x1, y1 := g.Bounds()
+	radial := g.Metric() == grid.Axisymmetric
+	far := make([]float64, g.Len())
+	decay := m.Far.Decay
+	if decay == 0 {
+		decay = 1
+	}
+	// factor returns n·(n̂·r̂)/R at (x, y) for outward normal (nx, ny).
+	factor := func(x, y, ux, uy float64) float64 {
+		dx, dy := x-m.Far.X, y-m.Far.Y
+		r2 := dx*dx + dy*dy
+		if r2 == 0 {
+			return 0
+		}
+		return decay * math.Max(0, ux*dx+uy*dy) / r2
+	}
+	for side, sd := range m.Sides {
+		if sd.Kind != bc.Open {
+			continue
+		}
+		switch side {
+		case bc.Left, bc.Right:
+			i, ci, ux, x := 0, 0, -1.0, x0
+			if side == bc.Right {
+				i, ci, ux, x = nx-1, nx-2, 1, x1
+			}
+			w := 1.0
+			if radial {
+				w = 2 * math.Pi * x
+			}
+			for j := 0; j < ny; j++ {
+				n := j*nx + i
+				if fixed[n] {
+					continue
+				}
+				lo, hi := g.DualY(j)
+				var a float64
+				if j > 0 {
+					a += m.Eps[(j-1)*cx+ci] * lo
+				}
+				if j+1 < ny {
+					a += m.Eps[j*cx+ci] * hi
+				}
+				far[n] += Eps0 * w * a * factor(x, ys[j], ux, 0)
+			}
+		case bc.Bottom, bc.Top:
+			j, cj, uy, y := 0, 0, -1.0, y0
+			if side == bc.Top {
+				j, cj, uy, y = ny-1, ny-2, 1, y1
+			}
+			for i := 0; i < nx; i++ {
+				n := j*nx + i
+				if fixed[n] {
+					continue
+				}
+				lo, hi := g.DualX(i)
+				var a float64
+				if i > 0 {
+					a += m.Eps[cj*cx+i-1] * lo
+				}
+				if i+1 < nx {
+					a += m.Eps[cj*cx+i] * hi
+				}
+				far[n] += Eps0 * a * factor(xs[i], y, 0, uy)
+			}
+		}
+	}
+	return far
 }
