@@ -58,7 +58,7 @@ type Level struct {
 // four-colour on the nine-point levels) where the operator is close to
 // isotropic, zebra line relaxation along the dominant direction where the
 // couplings differ by more than LineRatio (graded grids with long thin
-// cells). A V-cycle relaxes forward on the way down and in the reverse
+// cells, cells cut by a dielectric interface). A V-cycle relaxes forward on the way down and in the reverse
 // order on the way up, so one V-cycle from zero is a symmetric positive
 // definite preconditioner for conjugate gradients.
 //
@@ -83,14 +83,10 @@ type Multigrid struct {
 
 var _ Solver = (*Multigrid)(nil)
 
-// LineRatio and LineShare decide when a level relaxes by lines: when at
-// more than one free node in LineShare the couplings along one axis exceed
-// those along the other by more than LineRatio (cells about twice as long
-// as they are wide).
-const (
-	LineRatio = 4
-	LineShare = 100
-)
+// LineRatio decides when a level relaxes by lines: when at some free node
+// the couplings along one axis exceed those along the other by more than
+// this factor (cells about three times as long as they are wide).
+const LineRatio = 8
 
 // serialNodes is the level size below which kernels run on the calling
 // goroutine: waking the workers would cost more than the work.

@@ -59,7 +59,7 @@ type coarseLevel struct {
 	cx, cb          []float64
 	color, lineAxis int
 
-	smoothFn, residualFn, restrictFn, prolongFn, lineFn func(lo, hi int)
+	smoothFn, edgeFn, residualFn, restrictFn, prolongFn, lineFn func(lo, hi int)
 }
 
 func newCoarseLevel(nx, ny int) *coarseLevel {
@@ -77,6 +77,7 @@ func newCoarseLevel(nx, ny int) *coarseLevel {
 	l.r = make([]float64, n)
 	l.blocks = min(64, ny)
 	l.smoothFn = l.smoothBlocks
+	l.edgeFn = l.edgeBlocks
 	l.residualFn = l.residualBlocks
 	l.restrictFn = l.restrictBlocks
 	l.prolongFn = l.prolongBlocks
@@ -133,6 +134,16 @@ func (l *coarseLevel) rows(b int) (int, int) { return b * l.ny / l.blocks, (b + 
 // smooth relaxes A·x = b in place: one symmetric step is pre (forward) or
 // post (the reverse order), so that the V-cycle is symmetric. With zero set
 // x is taken as zero on entry.
+//
+// Point relaxation is four-colour Gauss–Seidel, the colours being the
+// parities of (i, j): forward (even, even), (odd, even), (even, odd),
+// (odd, odd). Nodes of one colour do not couple in a nine-point stencil.
+// The two colours of an even row need only that row; those of an odd row
+// need the even rows beside it. So one pass relaxes even row j and then
+// odd row j−1 (backward: odd row j, then even row j−1), and a second,
+// short pass relaxes the rows of the second kind at the edges of each
+// block, which need the neighbouring block's rows. Every node sees the
+// values of four separate colour sweeps, whatever the blocking.
 func (l *coarseLevel) smooth(x, b []float64, zero, post bool) {
 	if zero {
 		clear(x)
@@ -143,36 +154,66 @@ func (l *coarseLevel) smooth(x, b []float64, zero, post bool) {
 		l.smoothLines(post)
 		return
 	}
-	for c := 0; c < 4; c++ {
-		l.color = c
-		if post {
-			l.color = 3 - c
-		}
-		l.run(l.blocks, l.smoothFn)
+	l.color = 0
+	if post {
+		l.color = 1
 	}
+	l.run(l.blocks, l.smoothFn)
+	l.run(l.blocks, l.edgeFn)
 }
 
-// smoothBlocks is one colour of four-colour Gauss–Seidel: nodes (i, j)
-// with i ≡ color&1 and j ≡ color>>1 (mod 2). Nodes of one colour do not
-// couple in a nine-point stencil, so the colour's rows are independent.
+// smoothBlocks is the pipelined pass of smooth: rows of parity l.color
+// first.
 func (l *coarseLevel) smoothBlocks(lo, hi int) {
-	st := l.st
-	x, b := l.opX, l.opB
-	c, w, s, sw, se := l.c, l.w, l.s, l.sw, l.se
-	pi, pj := l.color&1, l.color>>1
+	first := l.color
+	back := l.color == 1
 	for blk := lo; blk < hi; blk++ {
 		j0, j1 := l.rows(blk)
 		for j := j0; j < j1; j++ {
-			if j&1 != pj {
+			if j&1 != first {
 				continue
 			}
-			o := (j+1)*st + 1
-			for i := pi; i < l.nx; i += 2 {
-				n := o + i
-				v := b[n] - w[n]*x[n-1] - w[n+1]*x[n+1] - s[n]*x[n-st] - s[n+st]*x[n+st] -
-					sw[n]*x[n-st-1] - se[n]*x[n-st+1] - sw[n+st+1]*x[n+st+1] - se[n+st-1]*x[n+st-1]
-				x[n] = v / c[n]
+			l.relaxRow(j, back)
+			if k := j - 1; k > j0 {
+				l.relaxRow(k, back)
 			}
+		}
+	}
+}
+
+// edgeBlocks relaxes the rows of the second kind at the first and last
+// row of each block.
+func (l *coarseLevel) edgeBlocks(lo, hi int) {
+	second := 1 - l.color
+	back := l.color == 1
+	for blk := lo; blk < hi; blk++ {
+		j0, j1 := l.rows(blk)
+		if j1 > j0 && j0&1 == second {
+			l.relaxRow(j0, back)
+		}
+		if j1-1 > j0 && (j1-1)&1 == second {
+			l.relaxRow(j1-1, back)
+		}
+	}
+}
+
+// relaxRow relaxes both colours of row j, even columns first (odd first
+// when back is set).
+func (l *coarseLevel) relaxRow(j int, back bool) {
+	st := l.st
+	x, b := l.opX, l.opB
+	c, w, s, sw, se := l.c, l.w, l.s, l.sw, l.se
+	o := (j+1)*st + 1
+	for q := 0; q < 2; q++ {
+		pi := q
+		if back {
+			pi = 1 - q
+		}
+		for i := pi; i < l.nx; i += 2 {
+			n := o + i
+			v := b[n] - w[n]*x[n-1] - w[n+1]*x[n+1] - s[n]*x[n-st] - s[n+st]*x[n+st] -
+				sw[n]*x[n-st-1] - se[n]*x[n-st+1] - sw[n+st+1]*x[n+st+1] - se[n+st-1]*x[n+st-1]
+			x[n] = v / c[n]
 		}
 	}
 }
