@@ -79,6 +79,9 @@ type Multigrid struct {
 	// nu is the number of relaxation steps before and after the coarse
 	// correction.
 	nu int
+	// fused selects the one-pass residual and restriction of the finest
+	// level after red-black relaxation.
+	fused bool
 }
 
 var _ Solver = (*Multigrid)(nil)
@@ -115,7 +118,7 @@ func NewMultigrid(sys *System, set *Settings) (*Multigrid, error) {
 // inverse diagonal) k.
 func newMultigrid(sys *System, k *kernels, set Settings) *Multigrid {
 	start := time.Now()
-	m := &Multigrid{sys: sys, set: set, k: k, nu: 1}
+	m := &Multigrid{sys: sys, set: set, k: k, nu: 1, fused: true}
 	m.fine = newFineLevel(sys, k)
 	m.fine.run = m.runner(sys.Len())
 	m.lv = []mgLevel{m.fine}
@@ -196,9 +199,13 @@ func (m *Multigrid) vcycle(l int, x, b []float64, zero bool) {
 	for s := 0; s < m.nu; s++ {
 		lv.smooth(x, b, zero && s == 0, false)
 	}
-	lv.residual(r, x, b)
 	cx, cb, _ := m.vectors(l + 1)
-	lv.restrict(cb, r)
+	if l == 0 && m.fine.smoother == PointGS && m.fused {
+		m.fine.restrictRed(cb, x, b)
+	} else {
+		lv.residual(r, x, b)
+		lv.restrict(cb, r)
+	}
 	m.vcycle(l+1, cx, cb, true)
 	lv.prolong(x, cx)
 	for s := 0; s < m.nu; s++ {

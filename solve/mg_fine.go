@@ -26,7 +26,9 @@ type fineLevel struct {
 	color, lineAxis       int
 	zero                  bool
 
-	smoothFn, edgeFn, restrictFn, prolongFn, lineFn func(lo, hi int)
+	smoothFn, edgeFn, restrictFn, prolongFn, lineFn, redFn func(lo, hi int)
+	// redBuf is the per-block row scratch of restrictRed.
+	redBuf []float64
 }
 
 func newFineLevel(sys *System, k *kernels) *fineLevel {
@@ -37,6 +39,7 @@ func newFineLevel(sys *System, k *kernels) *fineLevel {
 	f.restrictFn = f.restrictBlocks
 	f.prolongFn = f.prolongBlocks
 	f.lineFn = f.lineBlocks
+	f.redFn = f.redBlocks
 	return f
 }
 
@@ -71,6 +74,7 @@ func (f *fineLevel) row(i, j int, a *[9]float64) {
 func (f *fineLevel) prepare() {
 	s := f.sys
 	nx, ny := f.nx, f.ny
+	f.redBuf = make([]float64, 4*f.ncx*min(64, f.ncy))
 	f.ix = make([]float64, f.ncx*f.ncy)
 	f.iy = make([]float64, f.ncx*f.ncy)
 	for J := 0; J < f.ncy; J++ {
