@@ -123,7 +123,7 @@ func newMultigrid(sys *System, k *kernels, set Settings) *Multigrid {
 	m.fine.run = m.runner(sys.Len())
 	m.lv = []mgLevel{m.fine}
 	var cur mgLevel = m.fine
-	m.fine.smoother = chooseSmoother(m.fine)
+	m.fine.smoother = m.fine.chooseSmoother()
 	for {
 		nx, ny := cur.dims()
 		if min(nx, ny) <= 3 {
@@ -140,7 +140,11 @@ func newMultigrid(sys *System, k *kernels, set Settings) *Multigrid {
 			l.ncx, l.ncy = ncx, ncy
 			l.computeWeights()
 		}
-		galerkin(cur, c, m.runner(ncx*ncy))
+		if f, ok := cur.(*fineLevel); ok {
+			galerkinFine(f, c, m.runner(ncx*ncy))
+		} else {
+			galerkin(cur, c, m.runner(ncx*ncy))
+		}
 		c.smoother = chooseSmoother(c)
 		m.cs = append(m.cs, c)
 		m.lv = append(m.lv, c)

@@ -46,6 +46,45 @@ func chooseSmoother(l mgLevel) Smoother {
 	return PointGS
 }
 
+// chooseSmoother is chooseSmoother for the finest level, reading the
+// System's couplings directly.
+func (f *fineLevel) chooseSmoother() Smoother {
+	s := f.sys
+	nx, ny := f.nx, f.ny
+	var needX, needY bool
+	for j := 0; j < ny && !(needX && needY); j++ {
+		o := j * nx
+		for i := 0; i < nx; i++ {
+			n := o + i
+			if s.Fixed[n] {
+				continue
+			}
+			sx, sy := s.AX[n], s.AY[n]
+			if i > 0 {
+				sx += s.AX[n-1]
+			}
+			if j > 0 {
+				sy += s.AY[n-nx]
+			}
+			if sx > LineRatio*sy && sy > 0 {
+				needX = true
+			}
+			if sy > LineRatio*sx && sx > 0 {
+				needY = true
+			}
+		}
+	}
+	switch {
+	case needX && needY:
+		return LineXY
+	case needX:
+		return LineX
+	case needY:
+		return LineY
+	}
+	return PointGS
+}
+
 // lineSteps lists the zebra half-steps of a line smoother, forward: the
 // axis (0 for X lines, 1 for Y lines) and the parity of the lines.
 func lineSteps(s Smoother) [][2]int {
