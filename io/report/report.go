@@ -388,14 +388,33 @@ func (b *builder) pos(x, y float64) Position {
 }
 
 // surfacePeak returns the peak surface field of conductor k, and false
-// when the conductor has no surface point facing a dielectric.
+// when the conductor has no surface point facing a dielectric. Its value
+// is that of field.PeakSurfaceField; its position is the first surface
+// point, in grid order, whose |En| lies within round-off (tieTol) of the
+// largest, so that a uniform field, where every point is the peak, gives
+// a position that does not depend on the order of floating-point sums.
 func (b *builder) surfacePeak(k int) (Peak, bool) {
-	if len(b.sol.SurfaceField(k)) == 0 {
+	pts := b.sol.SurfaceField(k)
+	if len(pts) == 0 {
 		return Peak{}, false
 	}
-	p := b.sol.PeakSurfaceField(k)
-	return Peak{Where: p.Where, Field: p.Value, At: b.pos(p.X, p.Y)}, true
+	var top float64
+	for _, p := range pts {
+		top = math.Max(top, math.Abs(p.En))
+	}
+	pk := Peak{Where: b.sol.Map.Conductors[k].Name, Field: top}
+	for _, p := range pts {
+		if math.Abs(p.En) >= top*(1-tieTol) {
+			pk.At = b.pos(p.X, p.Y)
+			break
+		}
+	}
+	return pk, true
 }
+
+// tieTol is the relative difference below which two field magnitudes count
+// as equal when choosing where a peak lies.
+const tieTol = 1e-9
 
 func (b *builder) regionPeaks() []Peak {
 	var out []Peak

@@ -97,16 +97,29 @@ func sphereProblem() *bc.Problem {
 	return p
 }
 
+// discProblem is platesProblem in r–z: two discs of radius 10 mm, 1 mm
+// apart, with the FR-4 layer on the 0 V disc and a zero-flux rim.
+func discProblem() *bc.Problem {
+	p := platesProblem()
+	p.Metric = grid.Axisymmetric
+	return p
+}
+
 type golden struct {
 	name   string
 	reason string
 	build  func(t testing.TB) *Report
 }
 
+// The golden cases are problems whose discrete solution is exact (a
+// potential linear in y, which the scheme reproduces to round-off), so the
+// golden files change only when the report's content or layout does, not
+// when the numerics of other packages improve. The coax and sphere cases
+// below check Build on curved conductors against closed forms instead.
 var goldens = []golden{
 	{
 		name:   "plates",
-		reason: "series dielectric layers: exact fields, probe and cut inside both layers",
+		reason: "planar series layers: exact fields, probes and a cut in both layers, estimates copied through",
 		build: func(t testing.TB) *Report {
 			sol, c := solveCase(t, platesProblem(), 11, 11)
 			r, err := Build(sol, c, BuildOptions{
@@ -115,26 +128,8 @@ var goldens = []golden{
 				Unit:   Unit{"mm", 1e-3},
 				Probes: []Point{{Name: "air", X: 0.005, Y: 0.0008}, {Name: "laminate", X: 0.005, Y: 0.0003}},
 				Cuts:   []Line{{Name: "across", X0: 0.005, Y0: 0, X1: 0.005, Y1: 0.001, Samples: 11}},
-			})
-			if err != nil {
-				t.Fatal(err)
-			}
-			return r
-		},
-	},
-	{
-		name:   "coax",
-		reason: "curved conductors, symmetry planes, a convergence study copied through",
-		build: func(t testing.TB) *Report {
-			sol, c := solveCase(t, coaxProblem(), 85, 85)
-			r, err := Build(sol, c, BuildOptions{
-				Title:  "Coaxial line quarter, 1 mm / 3 mm",
-				Source: "coax.toml",
-				Unit:   Unit{"mm", 1e-3},
-				Probes: []Point{{Name: "midgap", X: 0.002, Y: 0}},
-				Cuts:   []Line{{Name: "radial", X0: 0.001, Y0: 0, X1: 0.003, Y1: 0, Samples: 21}},
 				Convergence: []Estimate{
-					{Quantity: "C[inner,inner]", Unit: "F/m", Value: 12.66e-12, Order: 2.01, Extrapolated: 12.6597e-12, Band: 0.004e-12},
+					{Quantity: "C[hv,hv]", Unit: "F/m", Value: 165.07808e-12, Order: 1.98, Extrapolated: 165.06e-12, Band: 0.02e-12},
 				},
 			})
 			if err != nil {
@@ -144,11 +139,15 @@ var goldens = []golden{
 		},
 	},
 	{
-		name:   "sphere",
-		reason: "axisymmetric units (C, F, J) and r–z labels",
+		name:   "disc",
+		reason: "axisymmetric units (C, F, J) and r–z labels on an exact case",
 		build: func(t testing.TB) *Report {
-			sol, c := solveCase(t, sphereProblem(), 85, 85)
-			r, err := Build(sol, c, BuildOptions{Title: "Spherical capacitor, upper half", Unit: Unit{"mm", 1e-3}})
+			sol, c := solveCase(t, discProblem(), 11, 11)
+			r, err := Build(sol, c, BuildOptions{
+				Title:  "Disc capacitor with an FR-4 layer",
+				Unit:   Unit{"mm", 1e-3},
+				Probes: []Point{{Name: "axis", X: 0, Y: 0.0008}},
+			})
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -157,15 +156,41 @@ var goldens = []golden{
 	},
 }
 
-// masks hide what differs from run to run: timings and the last digits of
-// the final residual.
+func coaxReport(t testing.TB) *Report {
+	sol, c := solveCase(t, coaxProblem(), 85, 85)
+	r, err := Build(sol, c, BuildOptions{
+		Title:  "Coaxial line quarter, 1 mm / 3 mm",
+		Unit:   Unit{"mm", 1e-3},
+		Probes: []Point{{Name: "midgap", X: 0.002, Y: 0}},
+		Cuts:   []Line{{Name: "radial", X0: 0.001, Y0: 0, X1: 0.003, Y1: 0, Samples: 21}},
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return r
+}
+
+func sphereReport(t testing.TB) *Report {
+	sol, c := solveCase(t, sphereProblem(), 85, 85)
+	r, err := Build(sol, c, BuildOptions{Title: "Spherical capacitor, upper half", Unit: Unit{"mm", 1e-3}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return r
+}
+
+// masks hide what is not the report's own doing: timings, and the
+// iteration count and final residual, which belong to the solver.
 var masks = []struct {
 	re   *regexp.Regexp
 	with string
 }{
 	{regexp.MustCompile(`(?m)^Time:.*$`), "Time: (masked)"},
-	{regexp.MustCompile(`largest residual \S+,`), "largest residual (masked),"},
+	{regexp.MustCompile(`\d+ iterations, largest residual \S+,`), "(masked) iterations, largest residual (masked),"},
 }
+
+// positionRE matches a position in the text.
+var positionRE = regexp.MustCompile(`\([^()]*\)`)
 
 var numberRE = regexp.MustCompile(`[-+]?\d+(\.\d+)?([eE][-+]?\d+)?`)
 
@@ -183,7 +208,17 @@ func compareText(t *testing.T, got, want string) {
 		t.Errorf("text report has %d lines, golden %d:\n%s", len(gl), len(wl), cmp.Diff(wl, gl))
 		return
 	}
+	section := ""
 	for i := range gl {
+		if wl[i] != "" && !strings.HasPrefix(wl[i], " ") {
+			section = wl[i]
+		}
+		if section == "Peak field by material" {
+			// Where a uniform field peaks within a material is a tie
+			// that round-off breaks; see approx.
+			gl[i] = positionRE.ReplaceAllString(gl[i], "(…)")
+			wl[i] = positionRE.ReplaceAllString(wl[i], "(…)")
+		}
 		gs, ws := numberRE.ReplaceAllString(gl[i], "#"), numberRE.ReplaceAllString(wl[i], "#")
 		if gs != ws {
 			t.Errorf("line %d:\n got %q\nwant %q", i+1, gl[i], wl[i])
@@ -202,10 +237,21 @@ func compareText(t *testing.T, got, want string) {
 
 // approx compares reports: relative 1e-6 on every number, with absolute
 // margins fitted to the size of each kind of figure (charges and
-// capacitances are of order 1e-11, fields and potentials of order 1); the
-// timings and the residual are ignored.
+// capacitances are of order 1e-11, fields and potentials of order 1). The
+// timings, iteration count and residual belong to the solver and are
+// ignored, and so is where a material's peak lies: in a uniform field every
+// cell ties, and field.PeakRegionFields breaks the tie by round-off. (The
+// conductor peaks break ties by rule and are compared.)
 var approx = cmp.Options{
-	cmpopts.IgnoreFields(Solver{}, "SetupSeconds", "SolveSeconds", "Residual"),
+	cmpopts.IgnoreFields(Solver{}, "SetupSeconds", "SolveSeconds", "Residual", "Iterations"),
+	cmp.FilterPath(func(p cmp.Path) bool {
+		for _, s := range p {
+			if f, ok := s.(cmp.StructField); ok && f.Name() == "Regions" {
+				return strings.HasSuffix(p.String(), ".At")
+			}
+		}
+		return false
+	}, cmp.Ignore()),
 	cmp.FilterPath(smallScale, cmpopts.EquateApprox(1e-6, 1e-22)),
 	cmp.FilterPath(func(p cmp.Path) bool { return !smallScale(p) }, cmpopts.EquateApprox(1e-6, 1e-9)),
 }
@@ -313,11 +359,13 @@ func TestPlatesClosedForm(t *testing.T) {
 	// source: REFERENCES P02a (series layers): E_air = 1864.4068 V/m, E_diel = 423.72881 V/m
 	within(t, "peak |E| on hv", hv.PeakField.Field, 1864.4068, 1e-7)
 	within(t, "peak |E| on gnd", gnd.PeakField.Field, 423.72881, 1e-7)
-	if y := hv.PeakField.At.Y; math.Abs(y-1) > 1e-12 {
-		t.Errorf("peak on hv at y = %g mm, want the plate at 1 mm", y)
+	// The field is uniform, so the peak is the first surface point in
+	// grid order.
+	if at := hv.PeakField.At; at != (Position{XM: 0, YM: 1e-3, X: 0, Y: 1}) {
+		t.Errorf("peak on hv at %+v, want (0, 1) mm", at)
 	}
-	if y := hv.PeakField.At.YM; math.Abs(y-1e-3) > 1e-15 {
-		t.Errorf("peak on hv at y = %g m, want 1e-3", y)
+	if at := gnd.PeakField.At; at != (Position{XM: 0, YM: 0, X: 0, Y: 0}) {
+		t.Errorf("peak on gnd at %+v, want (0, 0) mm", at)
 	}
 	regions := map[string]float64{}
 	for _, p := range r.Regions {
@@ -352,7 +400,7 @@ func TestPlatesClosedForm(t *testing.T) {
 // good to a few 1e-4, while the peak surface field is the largest of the
 // pointwise surface estimates and carries their scatter (about 1.5 % here).
 func TestCoaxClosedForm(t *testing.T) {
-	r := goldens[1].build(t)
+	r := coaxReport(t)
 	// source: Ramo, Whinnery & Van Duzer, Fields and Waves in Communication Electronics, 1994: C' = 2πε0/ln(b/a) = 50.638886 pF/m; a quarter holds a quarter
 	within(t, "C[inner,inner]", r.Conductors[0].Capacitance[0], 50.638886e-12/4, 2e-3)
 	// source: Ramo, Whinnery & Van Duzer, 1994: E(a) = V/(a ln(b/a)) = 910.23923 V/m
@@ -361,8 +409,8 @@ func TestCoaxClosedForm(t *testing.T) {
 	within(t, "peak |E| on outer", r.Conductors[1].PeakField.Field, 303.41308, 1e-2)
 	// source: REFERENCES P04a: φ(r = 2 mm) = ln(b/r)/ln(b/a) = 0.36907025 V
 	within(t, "φ(midgap)", r.Probes[0].Potential, 0.36907025, 2e-3)
-	if len(r.Estimates) != 1 || r.Estimates[0].Quantity != "C[inner,inner]" {
-		t.Errorf("estimates not copied: %+v", r.Estimates)
+	if r.Cuts[0].Samples[20].S != 0.002 {
+		t.Errorf("the radial cut ends at s = %g m, want 0.002", r.Cuts[0].Samples[20].S)
 	}
 }
 
@@ -371,15 +419,31 @@ func TestCoaxClosedForm(t *testing.T) {
 // the peak surface field carries the scatter of the pointwise estimates
 // (3 % at cells of a/27).
 func TestSphereClosedForm(t *testing.T) {
-	r := goldens[2].build(t)
+	r := sphereReport(t)
 	const a, b = 1e-3, 3e-3
 	// source: Griffiths, Introduction to Electrodynamics (spherical capacitor): C = 4πε0·ab/(b−a)
 	want := 4 * math.Pi * solve.Eps0 * a * b / (b - a) / 2
 	within(t, "C[inner,inner]", r.Conductors[0].Capacitance[0], want, 5e-3)
 	// source: Griffiths, Introduction to Electrodynamics: E(a) = V·b/(a(b−a)) = 1500 V/m
 	within(t, "peak |E| on inner", r.Conductors[0].PeakField.Field, 1500, 4e-2)
+}
+
+// TestDiscClosedForm checks the axisymmetric plates: C = ε0·πR²/(d1/εr1 +
+// d2/εr2), exact because the potential is linear in z.
+func TestDiscClosedForm(t *testing.T) {
+	r := goldens[1].build(t)
+	// source: Griffiths, Introduction to Electrodynamics (series capacitors, D_n continuous): C = ε0·A/(d1/εr1 + d2/εr2) with A = πR²
+	want := solve.Eps0 * math.Pi * 1e-4 / (0.4e-3/1 + 0.6e-3/4.4)
+	within(t, "C[hv,hv]", r.Conductors[0].Capacitance[0], want, 1e-7)
+	within(t, "W", r.Energy, want/2, 1e-7)
+	// source: REFERENCES P02a: E_air = 1864.4068 V/m
+	within(t, "peak |E| on hv", r.Conductors[0].PeakField.Field, 1864.4068, 1e-7)
+	within(t, "|E| on the axis", r.Probes[0].E, 1864.4068, 1e-7)
 	if r.Kind != (Kind{"axisymmetric", false}) || r.Units.Charge != "C" || r.Units.Capacitance != "F" || r.Units.Energy != "J" {
 		t.Errorf("axisymmetric kind and units wrong: %+v %+v", r.Kind, r.Units)
+	}
+	if r.Conductors[0].PeakField.At != (Position{XM: 0, YM: 1e-3, X: 0, Y: 1}) {
+		t.Errorf("a uniform field's peak lies at the first surface point, (0, 1) mm; got %+v", r.Conductors[0].PeakField.At)
 	}
 }
 
@@ -511,6 +575,7 @@ func TestFormatting(t *testing.T) {
 		{999.9996e-12, "F", "1.0000 nF"},
 		{12.5e3, "V", "12.500 kV"},
 		{3.2e-6, "s", "3.2000 µs"},
+		{1e-21, "F", "1.0000e-21 F"},
 	} {
 		if got := eng(c.v, c.unit); got != c.want {
 			t.Errorf("eng(%g, %q) = %q, want %q", c.v, c.unit, got, c.want)

@@ -171,6 +171,12 @@ func (r *Report) writeMatrix(w io.Writer) {
 		}
 	}
 	scale, prefix := prefixFor(big)
+	// Five significant digits on the largest entry, the same decimals on
+	// every entry.
+	dec := 0
+	if big > 0 {
+		dec = max(0, 4-int(math.Floor(math.Log10(big/scale))))
+	}
 	fmt.Fprintf(w, "\nCapacitance matrix (%s%s)\n", prefix, r.Units.Capacitance)
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
 	fmt.Fprintf(tw, "\t")
@@ -181,7 +187,7 @@ func (r *Report) writeMatrix(w io.Writer) {
 	for _, c := range r.Conductors {
 		fmt.Fprintf(tw, "  %s\t", c.Name)
 		for _, v := range c.Capacitance {
-			fmt.Fprintf(tw, "%s\t", strconv.FormatFloat(v/scale, 'f', 3, 64))
+			fmt.Fprintf(tw, "%s\t", strconv.FormatFloat(v/scale, 'f', dec, 64))
 		}
 		fmt.Fprintln(tw)
 	}
@@ -221,7 +227,8 @@ func (r *Report) writeProbes(w io.Writer) {
 	}
 	fmt.Fprintf(w, "\nProbes\n")
 	tw := table(w)
-	fmt.Fprintf(tw, "  name\tat %s\tpotential\t|E|\tEx\tEy\n", r.axes())
+	xs, ys := r.axisNames()
+	fmt.Fprintf(tw, "  name\tat %s\tpotential\t|E|\tE%s\tE%s\n", r.axes(), xs, ys)
 	vs := r.potentialScale()
 	for _, p := range r.Probes {
 		fmt.Fprintf(tw, "  %s\t%s\t%s\t%s\t%s\t%s\n", p.Name, r.at(p.At), eng(clean(p.Potential, vs), "V"),
@@ -307,6 +314,9 @@ func prefixFor(v float64) (float64, string) {
 func eng(v float64, unit string) string {
 	if v == 0 || math.IsNaN(v) || math.IsInf(v, 0) {
 		return strconv.FormatFloat(v, 'g', -1, 64) + " " + unit
+	}
+	if a := math.Abs(v); a < 1e-18 || a >= 1e21 {
+		return strconv.FormatFloat(v, 'e', 4, 64) + " " + unit
 	}
 	scale, prefix := prefixFor(v)
 	s := num5(v / scale)
