@@ -251,6 +251,8 @@ func TestParseBroken(t *testing.T) {
 			key: "region[1]", msg: []string{`conductor "a" is hidden`, "region[3] line 26 covers it", "later regions override earlier ones"}},
 		{name: "too many nodes", src: base + "[grid]\ncell = 0.0001\n", is: bc.ErrTooLarge, key: "grid.cell", line: -1,
 			msg: []string{"about 1e+10 nodes", "more than the cap of 16785409 nodes", "make [grid] cell larger"}},
+		{name: "ratio close to 1", src: base + "[grid]\nratio = 1.0001\nrefine = 1000\n", is: bc.ErrTooLarge, key: "grid",
+			msg: []string{"ratio 1.0001", "ratio larger"}},
 		{name: "over a lowered cap", src: base + "[grid]\ncell = 0.1\nmax_nodes = 1000\n", is: ErrInvalid, key: "grid.cell",
 			msg: []string{"more than the cap of 1000 nodes", "raise the cap with [grid] max_nodes ="}},
 	}
