@@ -210,6 +210,12 @@ func (sol *Solution) eachSurfaceLink(f func(surfaceLink)) {
 	}
 }
 
+// surfacePoints is the number of points on the line through a surface
+// point that the one-sided difference uses, the surface point included.
+const surfacePoints = 4
+
+const maxSurfacePoints = 5
+
 // minNormalDot is the smallest |n·d| for which a link's derivative is
 // turned into a normal field. Every direction has a grid axis within 45°,
 // so 0.7 < cos 45° leaves no part of a surface uncovered.
@@ -251,32 +257,39 @@ func (sol *Solution) surfacePoint(l surfaceLink, phi []float64) (SurfacePoint, b
 	if math.Abs(dot) < minNormalDot || s1 <= 0 {
 		return SurfacePoint{}, false
 	}
-	// Three points along the line: the surface, the free node, and the
-	// next node or conductor surface.
-	ss := [3]float64{0, s1}
-	fs := [3]float64{sol.V[l.cond], phi[l.free]}
+	// Points along the line: the surface, the free node, and further
+	// nodes until surfacePoints are known or a conductor surface or the
+	// outer boundary is reached.
+	var ss, fs [maxSurfacePoints]float64
+	ss[0], fs[0] = 0, sol.V[l.cond]
+	ss[1], fs[1] = s1, phi[l.free]
 	np := 2
-	if q := p + back; q >= 0 && q < n {
-		h := math.Abs(a[q] - a[p])
-		nb := l.free + back*st
-		lk := l.free // the link free→nb, indexed by its lower node
+	pos, node, dist := p, l.free, s1
+	for np < surfacePoints {
+		q := pos + back
+		if q < 0 || q >= n {
+			break
+		}
+		h := math.Abs(a[q] - a[pos])
+		nb := node + back*st
+		lk := node // the link node→nb, indexed by its lower node
 		if back < 0 {
 			lk = nb
 		}
-		ss[2] = s1 + h
 		if m.Kind[nb] == bc.OnConductor {
-			ss[2] = s1 + cut[lk]*h
+			ss[np], fs[np] = dist+cut[lk]*h, phi[nb]
+			np++
+			break
 		}
-		fs[2] = phi[nb]
-		np = 3
+		dist += h
+		ss[np], fs[np] = dist, phi[nb]
+		np++
+		if m.Kind[nb] != bc.Free {
+			break
+		}
+		pos, node = q, nb
 	}
-	var dphi float64
-	if np == 3 && ss[2] > ss[1] {
-		s1, s2 := ss[1], ss[2]
-		dphi = ((fs[1]-fs[0])*s2*s2 - (fs[2]-fs[0])*s1*s1) / (s1 * s2 * (s2 - s1))
-	} else {
-		dphi = (fs[1] - fs[0]) / s1
-	}
+	dphi := derivAt0(ss[:np], fs[:np])
 	en := -dphi / dot
 	if eps == 0 {
 		eps = sol.linkEps(l)
@@ -317,21 +330,137 @@ func (sol *Solution) linkEps(l surfaceLink) float64 {
 	return sum / float64(cnt)
 }
 
-// PeakSurfaceField returns the largest |En| on the surface of conductor k
-// and where it occurs, named after the conductor. A conductor without
-// surface points gives a zero Peak. Never trust a peak at a sharp edge or
-// corner: the field there grows without bound under refinement.
+// PeakSurfaceField returns the peak |En| on the surface of conductor k and
+// where it occurs, named after the conductor. A conductor without surface
+// points gives a zero Peak. Never trust a peak at a sharp edge or corner:
+// the field there grows without bound under refinement.
+//
+// The peak is not simply the largest sample: the samples carry small
+// irregular errors (they sit at different distances from the grid), and
+// the largest one picks the largest error. Instead a quadratic in the
+// tangential coordinate is fitted by weighted least squares to the samples
+// within four cells of the largest one, and the peak is the fitted
+// maximum when it lies within the samples' span (else the fitted value at
+// the end of the span nearest to it; next to a symmetry plane the window
+// is one-sided). This keeps the second-order accuracy of the samples and
+// makes the peak converge smoothly under refinement.
 func (sol *Solution) PeakSurfaceField(k int) Peak {
 	if k < 0 || k >= len(sol.Map.Conductors) {
 		return Peak{}
 	}
 	pk := Peak{Where: sol.Map.Conductors[k].Name}
-	for _, p := range sol.SurfaceField(k) {
+	pts := sol.SurfaceField(k)
+	best := -1
+	for i, p := range pts {
 		if v := math.Abs(p.En); v > pk.Value {
 			pk.Value, pk.X, pk.Y = v, p.X, p.Y
+			best = i
 		}
 	}
+	if best < 0 {
+		return pk
+	}
+	if v, x, y, ok := sol.fitPeak(pts, best); ok {
+		pk.Value, pk.X, pk.Y = v, x, y
+	}
 	return pk
+}
+
+// fitPeak fits |En| near pts[best] by a weighted quadratic along the
+// surface tangent and returns its maximum in the window and the location
+// of the sample nearest to it.
+func (sol *Solution) fitPeak(pts []SurfacePoint, best int) (v, x, y float64, ok bool) {
+	c := pts[best]
+	g := sol.Grid
+	i, j, _, _, in := g.Locate(c.X, c.Y)
+	if !in {
+		return 0, 0, 0, false
+	}
+	xs, ys := g.X(), g.Y()
+	i, j = min(i, g.Nx()-2), min(j, g.Ny()-2)
+	h := math.Max(xs[i+1]-xs[i], ys[j+1]-ys[j])
+	w := 4 * h
+	tx, ty := -c.Ny, c.Nx
+	// Normal equations of the weighted fit a + b·s + c·s².
+	var m [3][4]float64
+	var smin, smax float64
+	n := 0
+	for _, p := range pts {
+		dx, dy := p.X-c.X, p.Y-c.Y
+		d := math.Hypot(dx, dy)
+		if d > w || p.Nx*c.Nx+p.Ny*c.Ny < 0.5 {
+			continue
+		}
+		s := (dx*tx + dy*ty) / h
+		q := 1 - (d/w)*(d/w)
+		wt := q * q
+		basis := [3]float64{1, s, s * s}
+		for r := 0; r < 3; r++ {
+			for cc := 0; cc < 3; cc++ {
+				m[r][cc] += wt * basis[r] * basis[cc]
+			}
+			m[r][3] += wt * basis[r] * math.Abs(p.En)
+		}
+		smin, smax = math.Min(smin, s), math.Max(smax, s)
+		n++
+	}
+	if n < 4 || smax-smin < 2 {
+		return 0, 0, 0, false
+	}
+	coef, solved := solve3(m)
+	if !solved {
+		return 0, 0, 0, false
+	}
+	sv := 0.0
+	if coef[2] < 0 {
+		sv = -coef[1] / (2 * coef[2])
+		sv = math.Max(smin, math.Min(smax, sv))
+	}
+	v = coef[0] + coef[1]*sv + coef[2]*sv*sv
+	// Report the sample nearest to the fitted maximum.
+	bestD := math.Inf(1)
+	for _, p := range pts {
+		s := ((p.X-c.X)*tx + (p.Y-c.Y)*ty) / h
+		if d := math.Hypot(p.X-c.X, p.Y-c.Y); d <= w && math.Abs(s-sv) < bestD {
+			bestD, x, y = math.Abs(s-sv), p.X, p.Y
+		}
+	}
+	return v, x, y, true
+}
+
+// solve3 solves the 3×3 system held in the augmented matrix m by Gaussian
+// elimination with partial pivoting.
+func solve3(m [3][4]float64) ([3]float64, bool) {
+	for col := 0; col < 3; col++ {
+		piv := col
+		for r := col + 1; r < 3; r++ {
+			if math.Abs(m[r][col]) > math.Abs(m[piv][col]) {
+				piv = r
+			}
+		}
+		if m[piv][col] == 0 {
+			return [3]float64{}, false
+		}
+		m[col], m[piv] = m[piv], m[col]
+		for r := col + 1; r < 3; r++ {
+			f := m[r][col] / m[col][col]
+			for cc := col; cc < 4; cc++ {
+				m[r][cc] -= f * m[col][cc]
+			}
+		}
+	}
+	var x [3]float64
+	for r := 2; r >= 0; r-- {
+		v := m[r][3]
+		for cc := r + 1; cc < 3; cc++ {
+			v -= m[r][cc] * x[cc]
+		}
+		x[r] = v / m[r][r]
+	}
+	if math.IsNaN(x[0]) || math.IsInf(x[0], 0) {
+		return x, false
+	}
+	return x, true
 }
 
 // PeakRegionFields returns the largest field magnitude in every dielectric
@@ -574,4 +703,27 @@ func (sol *Solution) correctedResidual(r, phi []float64) {
 		}
 		r[n] = res
 	}
+}
+
+// derivAt0 returns the derivative at s = 0 of the polynomial through the
+// points (s[i], f[i]), from the derivatives of the Lagrange basis.
+func derivAt0(s, f []float64) float64 {
+	var d float64
+	for i := range s {
+		var li float64
+		for k := range s {
+			if k == i {
+				continue
+			}
+			t := 1 / (s[i] - s[k])
+			for j := range s {
+				if j != i && j != k {
+					t *= -s[j] / (s[i] - s[j])
+				}
+			}
+			li += t
+		}
+		d += f[i] * li
+	}
+	return d
 }
