@@ -250,7 +250,7 @@ func TestParseBroken(t *testing.T) {
 		{name: "hidden conductor", src: base + "[[region]]\nkind = \"dielectric\"\neps_r = 3\ncircle = { center = [5, 5], radius = 2 }\n", is: ErrInvalid,
 			key: "region[1]", msg: []string{`conductor "a" is hidden`, "region[3] line 26 covers it", "later regions override earlier ones"}},
 		{name: "too many nodes", src: base + "[grid]\ncell = 0.0001\n", is: bc.ErrTooLarge, key: "grid.cell", line: -1,
-			msg: []string{"about 1e+10 nodes", "more than the cap of 16785409 nodes", "make [grid] cell larger"}},
+			msg: []string{"about 1e+10 nodes", "more than the cap of 16785409 nodes", "make [grid] cell larger", "max_nodes will not help"}},
 		{name: "ratio close to 1", src: base + "[grid]\nratio = 1.0001\nrefine = 1000\n", is: bc.ErrTooLarge, key: "grid",
 			msg: []string{"ratio 1.0001", "ratio larger"}},
 		{name: "over a lowered cap", src: base + "[grid]\ncell = 0.1\nmax_nodes = 1000\n", is: ErrInvalid, key: "grid.cell",
@@ -321,6 +321,13 @@ func TestMemoryCheck(t *testing.T) {
 	}
 	for _, s := range []string{"needs about", "MiB of memory", "200 bytes per node", "1.0 MiB this machine has"} {
 		if !strings.Contains(err.Error(), s) {
+			t.Errorf("message %q lacks %q", err, s)
+		}
+	}
+	// Over the node cap, and raising the cap would not fit either.
+	_, err = Parse("m.toml", []byte(base+"[grid]\ncell = 0.001\n"))
+	for _, s := range []string{"more than the cap of 16785409 nodes", "raising the cap with [grid] max_nodes = ", "GiB of memory, more than the 1.0 MiB this machine has"} {
+		if err == nil || !strings.Contains(err.Error(), s) || !errors.Is(err, bc.ErrTooLarge) {
 			t.Errorf("message %q lacks %q", err, s)
 		}
 	}

@@ -691,7 +691,13 @@ func (d *decoder) grid(raw *rawFile) error {
 		e := d.errAt(key, "the grid would need about %.3g nodes (cell %s, refine %g, ratio %g), more than the cap of %d nodes; make [grid] cell larger, refine smaller or ratio larger",
 			est, d.length(mesh.Cell), mesh.Refine, mesh.Ratio, mesh.MaxNodes)
 		need := math.Ceil(est * 1.1)
-		if total := memTotal(); need <= math.MaxInt32 && (total == 0 || need*BytesPerNode <= float64(total)) {
+		switch total := memTotal(); {
+		case need > math.MaxInt32:
+			e.Msg += fmt.Sprintf("; raising the cap with [grid] max_nodes will not help, as it cannot exceed %d", math.MaxInt32)
+		case total > 0 && need*BytesPerNode > float64(total):
+			e.Msg += fmt.Sprintf("; raising the cap with [grid] max_nodes = %.0f would need about %s of memory, more than the %s this machine has",
+				need, bytesString(need*BytesPerNode), bytesString(float64(total)))
+		default:
 			e.Msg += fmt.Sprintf(", or raise the cap with [grid] max_nodes = %.0f (about %s of memory)", need, bytesString(need*BytesPerNode))
 		}
 		e.Err = fmt.Errorf("%w: %w", ErrInvalid, bc.ErrTooLarge)
