@@ -851,20 +851,19 @@ func (d *decoder) picture(key string, p rawPicture) (Picture, error) {
 	if !d.ix.has(join(key, "kind")) {
 		return Picture{}, d.missing(key, "kind", `what to draw: "potential", "field", "arrows" or "field-lines"`)
 	}
-	pic := Picture{Kind: p.Kind}
+	pic := Picture{Kind: p.Kind, Contours: 10}
 	var only []string // keys that belong to other kinds
 	switch p.Kind {
 	case PotentialMap:
-		pic.Contours = 10
-		only = []string{"arrow_length", "arrows", "lines", "from"}
+		only = []string{"arrow_length", "lines", "log_scale"}
 	case FieldMap:
-		only = []string{"arrow_length", "arrows", "lines", "from"}
+		only = []string{"arrow_length", "lines"}
 	case FieldArrows:
-		pic.ArrowLength, pic.Arrows = ArrowsScaled, 24
-		only = []string{"lines", "from"}
+		pic.ArrowLength = ArrowsScaled
+		only = []string{"lines"}
 	case FieldLines:
-		pic.Lines = 16
-		only = []string{"arrow_length", "arrows"}
+		pic.Lines = 24
+		only = []string{"arrow_length", "log_scale"}
 	default:
 		return Picture{}, d.schemaAt(join(key, "kind"), `unknown picture kind %q; use "potential", "field", "arrows" or "field-lines"`, p.Kind)
 	}
@@ -891,10 +890,9 @@ func (d *decoder) picture(key string, p rawPicture) (Picture, error) {
 		lo, hi float64
 		dst    *int
 	}{
-		{"width", p.Width, 0, 20000, &pic.Width},
-		{"height", p.Height, 0, 20000, &pic.Height},
-		{"contours", p.Contours, 0, 1000, &pic.Contours},
-		{"arrows", p.Arrows, 1, 1000, &pic.Arrows},
+		{"width", p.Width, 0, MaxPictureSize, &pic.Width},
+		{"height", p.Height, 0, MaxPictureSize, &pic.Height},
+		{"contours", p.Contours, 1, 1000, &pic.Contours},
 		{"lines", p.Lines, 1, 10000, &pic.Lines},
 	} {
 		if d.ix.has(join(key, f.k)) {
@@ -903,6 +901,7 @@ func (d *decoder) picture(key string, p rawPicture) (Picture, error) {
 			}
 		}
 	}
+	pic.LogScale = p.LogScale
 	if d.ix.has(join(key, "arrow_length")) {
 		switch p.ArrowLength {
 		case ArrowsScaled, ArrowsUniform, ArrowsLog:
@@ -911,17 +910,12 @@ func (d *decoder) picture(key string, p rawPicture) (Picture, error) {
 			return Picture{}, d.schemaAt(join(key, "arrow_length"), `unknown arrow length mode %q; use "scaled" (length ∝ |E|), "uniform" (one length, colour shows |E|) or "log"`, p.ArrowLength)
 		}
 	}
-	for n, c := range p.From {
-		if d.p.ConductorIndex(c) < 0 {
-			return Picture{}, d.errAt(join(key, "from")+"["+strconv.Itoa(n+1)+"]", "unknown conductor %q%s", c, d.conductorList())
-		}
-	}
-	pic.From = append([]string(nil), p.From...)
-	if len(pic.From) == 0 {
-		pic.From = nil
-	}
 	return pic, nil
 }
+
+// MaxPictureSize is the largest picture width or height a model may ask
+// for, the limit of package io/plot.
+const MaxPictureSize = 10000
 
 // interval reads a [lo, hi] pair of lengths.
 func (d *decoder) interval(key string, v []float64) (float64, float64, error) {

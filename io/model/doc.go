@@ -150,18 +150,17 @@
 //	[[output.picture]]
 //	kind = "field"
 //	file = "field.png"
+//	log_scale = true
 //
 //	[[output.picture]]
 //	kind = "arrows"
 //	file = "arrows.svg"
 //	arrow_length = "log"
-//	arrows = 40
 //
 //	[[output.picture]]
 //	kind = "field-lines"
 //	file = "lines.svg"
-//	lines = 24
-//	from = ["signal"]
+//	lines = 32
 //
 //	[[output.probe]]
 //	name = "above trace"
@@ -341,15 +340,15 @@
 //	                      "field-lines"
 //	file          string  plain file name ending in .png or .svg
 //	                      (default "<kind>.png"); unique
-//	width, height number  pixels (default 0: automatic)
-//	contours      number  equipotential lines drawn over the picture
-//	                      (default 10 for "potential", else 0)
+//	width, height number  pixels, or points in an SVG, up to 10000
+//	                      (default 0: automatic)
+//	contours      number  approximate number of equipotentials, ≥ 1 (default 10)
+//	log_scale     bool    "field" and "arrows": |E| on a logarithmic colour
+//	                      scale (default false)
 //	arrow_length  string  "arrows" only: "scaled" (∝ |E|, default), "uniform"
 //	                      (one length, colour shows |E|) or "log" (∝ log |E|)
-//	arrows        number  "arrows" only: arrows along the longer side (default 24)
-//	lines         number  "field-lines" only: number of lines (default 16)
-//	from          array   "field-lines" only: conductor names to start from
-//	                      (default: every conductor)
+//	lines         number  "field-lines" only: approximate number of lines,
+//	                      started on the conductor surfaces (default 24)
 //
 // # [[output.probe]] and [[output.cut]]
 //

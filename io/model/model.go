@@ -45,30 +45,29 @@ const (
 	ArrowsLog     = "log"     // length proportional to log |E| over its range
 )
 
-// Picture is one requested picture.
+// Picture is one requested picture. The fields follow the options of
+// package io/plot.
 type Picture struct {
 	// Kind is PotentialMap, FieldMap, FieldArrows or FieldLines.
 	Kind string
 	// File is the output file name; its extension (.png or .svg) gives
 	// the format. Default "<kind>.png".
 	File string
-	// Width and Height are the size in pixels; zero means automatic.
+	// Width and Height are the size in pixels (points in an SVG); zero
+	// means automatic.
 	Width, Height int
-	// Contours is the number of equipotential lines drawn over the
-	// picture. Default 10 for PotentialMap, 0 otherwise.
+	// Contours is the approximate number of equipotentials drawn (≥ 1).
+	// Default 10.
 	Contours int
+	// LogScale shows |E| on a logarithmic colour scale (FieldMap, and the
+	// colours of ArrowsUniform arrows).
+	LogScale bool
 	// ArrowLength is the arrow length mode of FieldArrows (default
 	// ArrowsScaled); empty for other kinds.
 	ArrowLength string
-	// Arrows is the number of arrows along the longer side of the domain
-	// in FieldArrows (default 24); zero for other kinds.
-	Arrows int
-	// Lines is the number of field lines of FieldLines (default 16); zero
-	// for other kinds.
+	// Lines is the approximate number of field lines of FieldLines
+	// (default 24); zero for other kinds.
 	Lines int
-	// From names the conductors FieldLines start from; empty means every
-	// conductor.
-	From []string
 }
 
 // Probe is a point where the potential and field are reported.

@@ -270,9 +270,9 @@ func TestParseFull(t *testing.T) {
 		Dir: "traces-out", Report: true, CSV: true, VTK: true, Archive: true,
 		Pictures: []Picture{
 			{Kind: PotentialMap, File: "potential.png", Width: 1200, Height: 500, Contours: 20},
-			{Kind: FieldMap, File: "field.png"},
-			{Kind: FieldArrows, File: "arrows.svg", ArrowLength: ArrowsLog, Arrows: 40},
-			{Kind: FieldLines, File: "lines.svg", Lines: 24, From: []string{"signal"}},
+			{Kind: FieldMap, File: "field.png", Contours: 10, LogScale: true},
+			{Kind: FieldArrows, File: "arrows.svg", Contours: 10, ArrowLength: ArrowsLog},
+			{Kind: FieldLines, File: "lines.svg", Contours: 10, Lines: 32},
 		},
 		Probes: []Probe{{Name: "above trace", X: -0.001, Y: 0.0025}},
 		Cuts:   []Cut{{Name: "vertical", X0: -0.001, X1: -0.001, Y1: 0.008, Samples: 161}},

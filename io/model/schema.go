@@ -132,15 +132,14 @@ type rawOutput struct {
 }
 
 type rawPicture struct {
-	Kind        string   `toml:"kind"`
-	File        string   `toml:"file"`
-	Width       float64  `toml:"width"`
-	Height      float64  `toml:"height"`
-	Contours    float64  `toml:"contours"`
-	ArrowLength string   `toml:"arrow_length"`
-	Arrows      float64  `toml:"arrows"`
-	Lines       float64  `toml:"lines"`
-	From        []string `toml:"from"`
+	Kind        string  `toml:"kind"`
+	File        string  `toml:"file"`
+	Width       float64 `toml:"width"`
+	Height      float64 `toml:"height"`
+	Contours    float64 `toml:"contours"`
+	LogScale    bool    `toml:"log_scale"`
+	ArrowLength string  `toml:"arrow_length"`
+	Lines       float64 `toml:"lines"`
 }
 
 type rawProbe struct {
