@@ -238,9 +238,13 @@ func (m *Multigrid) Cycle(b, x []float64) {
 
 // FMG overwrites x with a full-multigrid approximation of A·x = b: b is
 // restricted to every level, the coarsest is solved exactly, and each
-// finer level starts from the interpolated coarser solution and takes one
-// V-cycle. The result is typically accurate to the discretisation error
-// and is a good first guess for Solve.
+// finer level starts from the interpolated coarser solution, relaxes once
+// and takes one V-cycle. It costs about a third more than a V-cycle. On
+// problems driven by charge it is accurate to about the discretisation
+// error; where conductors drive the field it is worth two or three
+// V-cycles from zero, because the interpolation (built for corrections) is
+// zero next to fixed nodes and the conductors' potentials reach the fine
+// grid only through relaxation.
 func (m *Multigrid) FMG(b, x []float64) {
 	if len(b) != m.sys.Len() || len(x) != m.sys.Len() {
 		panic("solve: FMG length mismatch")
@@ -278,6 +282,11 @@ func (m *Multigrid) FMG(b, x []float64) {
 				}
 			}
 		}
+		// The interpolation carries no boundary data: it is zero next to
+		// fixed nodes. Relaxing the edge points and then the others
+		// brings the conductors' potentials into the nodes beside them
+		// before the V-cycle.
+		m.lv[l].smooth(xl, bl, false, true)
 		m.vcycle(l, xl, bl, false)
 	}
 }
