@@ -64,3 +64,10 @@ func TestEntriesAreTheFreeSystem(t *testing.T) {
 		}
 	}
 }
+
+func TestTimeResidual(t *testing.T) {
+	s := mgSquare(t, 65)
+	if d := TimeResidual(s, 2, 3); d <= 0 {
+		t.Errorf("residual time %v", d)
+	}
+}

@@ -111,6 +111,7 @@ func NewMultigrid(sys *System, set *Settings) (*Multigrid, error) {
 	}
 	m := newMultigrid(sys, newKernels(sys, o.Workers), o)
 	m.ownK = true
+	m.fine.needR()
 	return m, nil
 }
 
@@ -124,6 +125,9 @@ func newMultigrid(sys *System, k *kernels, set Settings) *Multigrid {
 	m.lv = []mgLevel{m.fine}
 	var cur mgLevel = m.fine
 	m.fine.smoother = m.fine.chooseSmoother()
+	if m.fine.smoother != PointGS {
+		m.fine.needR()
+	}
 	for {
 		nx, ny := cur.dims()
 		if min(nx, ny) <= 3 {

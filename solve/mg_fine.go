@@ -11,7 +11,9 @@ type fineLevel struct {
 	sys    *System
 	nx, ny int
 	k      *kernels
-	// r is the residual of the finest level.
+	// r is the residual of the finest level, allocated only where it is
+	// needed: for line relaxation (which also keeps its eliminated
+	// super-diagonal there) and for stand-alone cycles.
 	r        []float64
 	ncx, ncy int
 	// ix and iy hold, per coarse point (I, J), the inverse lumped
@@ -33,7 +35,6 @@ type fineLevel struct {
 
 func newFineLevel(sys *System, k *kernels) *fineLevel {
 	f := &fineLevel{sys: sys, nx: sys.Nx, ny: sys.Ny, k: k}
-	f.r = make([]float64, sys.Len())
 	f.smoothFn = f.smoothBlocks
 	f.edgeFn = f.edgeBlocks
 	f.restrictFn = f.restrictBlocks
@@ -44,6 +45,13 @@ func newFineLevel(sys *System, k *kernels) *fineLevel {
 }
 
 func (f *fineLevel) dims() (int, int) { return f.nx, f.ny }
+
+// needR allocates the residual vector.
+func (f *fineLevel) needR() {
+	if f.r == nil {
+		f.r = make([]float64, f.nx*f.ny)
+	}
+}
 
 func (f *fineLevel) index(i, j int) int { return j*f.nx + i }
 

@@ -180,6 +180,7 @@ func TestRestrictRedMatchesGeneral(t *testing.T) {
 			s := c.build(t, n)
 			m, f, c1, _ := testLevels(t, s)
 			f.smoother = PointGS
+			f.needR()
 			b := pseudo(f, s.Len(), 0.3)
 			x := make([]float64, s.Len())
 			f.smooth(x, b, true, false)
