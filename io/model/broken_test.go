@@ -88,6 +88,21 @@ func TestParseBroken(t *testing.T) {
 			msg: []string{"expected a string, got an integer"}},
 		{name: "integer for a bool", src: base + "[output]\ncsv = 1\n", is: ErrSchema, key: "output.csv", line: -1,
 			msg: []string{"expected true or false, got an integer"}},
+		{name: "number for the title", src: "title = 3\n" + base, is: ErrSchema, key: "title", line: 1, msg: []string{"expected a string, got an integer"}},
+		{name: "number for materials", src: "materials = 3\n" + base, is: ErrSchema, key: "materials",
+			msg: []string{"expected a table of name = relative permittivity, got an integer"}},
+		{name: "string for a material", src: base + "[materials]\nresin = \"4\"\n", is: ErrSchema, key: "materials.resin",
+			msg: []string{"expected a relative permittivity (a number), got a string"}},
+		{name: "number for an extent", src: strings.Replace(base, "x = [0, 10]", "x = 10", 1), is: ErrSchema, key: "domain.x",
+			msg: []string{"expected an array [x0, x1] of two numbers, got an integer"}},
+		{name: "number for a vertex", src: base + "[[region]]\nkind = \"dielectric\"\neps_r = 2\npolygon = { points = [1, 2, 3] }\n",
+			is: ErrSchema, key: "region[3].polygon.points[1]", msg: []string{"expected a vertex [x, y] of two numbers, got an integer"}},
+		{name: "number for a shape", src: base + "[[region]]\nkind = \"dielectric\"\neps_r = 2\ncircle = 3\n",
+			is: ErrSchema, key: "region[3].circle", msg: []string{"expected a table such as { center = [0, 0], radius = 1 }, got an integer"}},
+		{name: "date for a number", src: base + "[solver]\ntolerance = 2024-01-01\n", is: ErrSchema, key: "solver.tolerance",
+			msg: []string{"expected a number, got a local date"}},
+		{name: "strings for a point", src: base + "[[output.probe]]\nat = [\"1\", \"2\"]\n", is: ErrSchema, key: "output.probe[1].at[1]",
+			msg: []string{"expected a number, got a string"}},
 		{name: "single table for an array", src: strings.Replace(base, "[[conductor]]\nname = \"b\"", "[conductorx]\nname = \"b\"", 1), is: ErrSchema,
 			msg: []string{`unknown key "conductorx"`}},
 		{name: "table instead of array of tables", src: "[units]\nlength = \"mm\"\n[conductor]\nname = \"a\"\npotential = 1\n", is: ErrSchema, key: "conductor", line: 3,
@@ -370,6 +385,22 @@ func TestLocate(t *testing.T) {
 	}
 	if line, _ := m.Position("region[2].rect"); line != 25 {
 		t.Errorf("Position(region[2].rect) = line %d, want 25", line)
+	}
+}
+
+func TestGridError(t *testing.T) {
+	m, err := Parse("m.toml", []byte(base+"[grid]\ncell = 0.5\n"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := m.Grid(); err != nil {
+		t.Fatal(err)
+	}
+	m.Mesh.MaxNodes = 10
+	_, err = m.Grid()
+	var e *Error
+	if !errors.As(err, &e) || e.Key != "grid" || e.Line != baseLines+1 || !errors.Is(err, bc.ErrTooLarge) {
+		t.Errorf("Grid over the cap: %v", err)
 	}
 }
 

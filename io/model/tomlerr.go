@@ -101,40 +101,62 @@ func (d *decoder) wrongType(at pos, got string, de *toml.DecodeError) error {
 }
 
 // typeHints give a more specific expectation for keys whose type alone
-// says too little.
+// says too little. Keys are schema paths, with [] for an entry of an array.
 var typeHints = map[string]string{
-	"units":           `a table such as [units] length = "mm"`,
-	"domain.x":        "an array [x0, x1] of two numbers",
-	"domain.y":        "an array [y0, y1] of two numbers",
-	"boundary.left":   `a table such as { kind = "fixed", potential = 0 }`,
-	"boundary.right":  `a table such as { kind = "fixed", potential = 0 }`,
-	"boundary.bottom": `a table such as { kind = "fixed", potential = 0 }`,
-	"boundary.top":    `a table such as { kind = "fixed", potential = 0 }`,
-	"conductor":       "an array of tables, one [[conductor]] per conductor",
-	"region":          "an array of tables, one [[region]] per region",
-	"line_charge":     "an array of tables, one [[line_charge]] per charge",
-	"ring_charge":     "an array of tables, one [[ring_charge]] per charge",
-	"output.picture":  "an array of tables, one [[output.picture]] per picture",
-	"output.probe":    "an array of tables, one [[output.probe]] per probe",
-	"output.cut":      "an array of tables, one [[output.cut]] per cut",
-	"materials":       "a table of name = relative permittivity",
-	"region.rect":     "a table such as { x = [0, 1], y = [0, 1] }",
-	"region.circle":   "a table such as { center = [0, 0], radius = 1 }",
-	"region.annulus":  "a table such as { center = [0, 0], inner_radius = 1, outer_radius = 2 }",
-	"region.polygon":  "a table such as { points = [[0, 0], [1, 0], [0, 1]] }",
-	"region.strip":    "a table such as { from = [0, 0], to = [1, 0], thickness = 0.1 }",
-	"region.rect.x":   "an array [x0, x1] of two numbers",
-	"region.rect.y":   "an array [y0, y1] of two numbers",
+	"units":                         `a table such as [units] length = "mm"`,
+	"domain.x":                      "an array [x0, x1] of two numbers",
+	"domain.y":                      "an array [y0, y1] of two numbers",
+	"boundary.left":                 `a table such as { kind = "fixed", potential = 0 }`,
+	"boundary.right":                `a table such as { kind = "fixed", potential = 0 }`,
+	"boundary.bottom":               `a table such as { kind = "fixed", potential = 0 }`,
+	"boundary.top":                  `a table such as { kind = "fixed", potential = 0 }`,
+	"conductor":                     "an array of tables, one [[conductor]] per conductor",
+	"region":                        "an array of tables, one [[region]] per region",
+	"line_charge":                   "an array of tables, one [[line_charge]] per charge",
+	"ring_charge":                   "an array of tables, one [[ring_charge]] per charge",
+	"output.picture":                "an array of tables, one [[output.picture]] per picture",
+	"output.probe":                  "an array of tables, one [[output.probe]] per probe",
+	"output.cut":                    "an array of tables, one [[output.cut]] per cut",
+	"materials":                     "a table of name = relative permittivity",
+	"materials.":                    "a relative permittivity (a number)",
+	"region[].rect":                 "a table such as { x = [0, 1], y = [0, 1] }",
+	"region[].circle":               "a table such as { center = [0, 0], radius = 1 }",
+	"region[].annulus":              "a table such as { center = [0, 0], inner_radius = 1, outer_radius = 2 }",
+	"region[].polygon":              "a table such as { points = [[0, 0], [1, 0], [0, 1]] }",
+	"region[].strip":                "a table such as { from = [0, 0], to = [1, 0], thickness = 0.1 }",
+	"region[].rect.x":               "an array [x0, x1] of two numbers",
+	"region[].rect.y":               "an array [y0, y1] of two numbers",
+	"region[].polygon.points":       "an array of vertices [[x, y], [x, y], ...]",
+	"region[].polygon.points[]":     "a vertex [x, y] of two numbers",
+	"region[].circle.center":        "a point [x, y] of two numbers",
+	"region[].annulus.center":       "a point [x, y] of two numbers",
+	"region[].strip.from":           "a point [x, y] of two numbers",
+	"region[].strip.to":             "a point [x, y] of two numbers",
+	"line_charge[].at":              "a point [x, y] of two numbers",
+	"ring_charge[].at":              "a point [r, z] of two numbers",
+	"output.probe[].at":             "a point [x, y] of two numbers",
+	"output.cut[].from":             "a point [x, y] of two numbers",
+	"output.cut[].to":               "a point [x, y] of two numbers",
+	"region[].polygon.points[][]":   "a number",
+	"region[].circle.center[]":      "a number",
+	"output.picture[].arrow_length": `"scaled", "uniform" or "log"`,
 }
 
-// schemaPath strips the array indices from a key path: "region[2].circle"
-// → "region.circle".
+// schemaPath replaces the array indices of a key path by [], and the names
+// under [materials] (which are the user's) by nothing: "region[2].circle"
+// → "region[].circle", "materials.PTFE" → "materials.".
 func schemaPath(key string) string {
+	if strings.HasPrefix(key, "materials.") {
+		return "materials."
+	}
 	var b strings.Builder
 	depth := 0
 	for _, r := range key {
 		switch {
 		case r == '[':
+			if depth == 0 {
+				b.WriteString("[]")
+			}
 			depth++
 		case r == ']':
 			depth--
