@@ -10,9 +10,10 @@
 //   - Potential: a colour map of φ with equipotentials at round levels,
 //     labelled in gaps along the lines; the conductors' names and
 //     potentials where they fit.
-//   - FieldMagnitude: a colour map of |E|, linear or (LogScale) over three
-//     decades below the peak; the largest nodal field is ringed and
-//     quoted with its position in a footnote.
+//   - FieldMagnitude: a colour map of |E|, linear or (LogScale)
+//     logarithmic down to the smallest field but at most three decades
+//     below the peak; the largest nodal field is ringed and quoted with
+//     its position in a footnote.
 //   - Arrows: field vectors drawn from their tail points on a regular
 //     lattice over faint equipotentials. ArrowMode sets the length:
 //     TrueLength (longest ≈ one lattice spacing, with a key), LogLength
@@ -54,8 +55,10 @@
 // # Method
 //
 // Colour maps are sampled on the picture's own pixel lattice from the
-// solution's interpolants (PotentialAt, FieldAt), so non-uniform grids
-// appear at their true coordinates. Equipotentials come from marching
+// solution's potential (PotentialAt) and nodal field (NodeFieldTo), so
+// non-uniform grids appear at their true coordinates; in cells cut by a
+// conductor surface the field is interpolated from the free corners only,
+// which keeps the grid's staircase out of the picture. Equipotentials come from marching
 // squares on the nodes, taking the conductor potential at the cut point
 // of a link cut by a conductor surface rather than at the conductor node.
 // Field lines are integrated by fourth-order Runge–Kutta steps on the

@@ -101,6 +101,7 @@ type figure struct {
 	bar    *colorBar
 	key    *arrowKey
 	layers []layer
+	bounds []boundary // region boundaries, see boundaries
 }
 
 func newFigure(sol *field.Solution, p *bc.Problem, o Options, format string) (*figure, error) {
@@ -218,7 +219,7 @@ func (f *figure) barTicks(h vg.Length) []tick {
 	if b.log {
 		return logTicks(b.lo, b.hi)
 	}
-	return linearTicks(b.lo, b.hi, max(2, int(float64(h)/(3.2*f.fs))))
+	return linearTicks(b.lo, b.hi, min(10, max(2, int(float64(h)/(3.2*f.fs)))))
 }
 
 // newAxes returns the gonum plot that draws the axes in the model's unit.

@@ -95,29 +95,41 @@ func (f *figure) preparePotential() {
 	f.heading("Potential φ", detail)
 }
 
-// nodePeak returns the largest |E| at a free node and where it is.
-func (f *figure) nodePeak() (peak, x, y float64) {
+// nodePeak returns the largest |E| at a free node and where it is, and
+// the smallest non-zero |E| at a free node.
+func (f *figure) nodePeak() (peak, x, y, least float64) {
 	ex, ey := f.sol.NodeFieldTo(nil, nil)
 	mag := field.Magnitude(nil, ex, ey)
 	g, m := f.sol.Grid, f.sol.Map
 	xs, ys := g.X(), g.Y()
 	nx := g.Nx()
+	least = math.Inf(1)
 	for n, v := range mag {
-		if m.Kind[n] == bc.Free && v > peak {
+		if m.Kind[n] != bc.Free {
+			continue
+		}
+		if v > peak {
 			peak, x, y = v, xs[n%nx], ys[n/nx]
 		}
+		if v > 0 {
+			least = math.Min(least, v)
+		}
 	}
-	return peak, x, y
+	return peak, x, y, least
 }
 
 // magnitudeScale returns the colour-scale position of a field strength:
-// linear from 0 or logarithmic over three decades below peak.
-func (f *figure) magnitudeScale(peak float64) (lo float64, t func(float64) float64) {
+// linear from 0, or logarithmic from the smallest field (rounded down to
+// 1, 2 or 5 × 10ᵏ) but at most three decades below the peak.
+func (f *figure) magnitudeScale(peak, least float64) (lo float64, t func(float64) float64) {
 	if !(peak > 0) {
 		return 0, func(float64) float64 { return 0 }
 	}
 	if f.o.LogScale {
 		lo = peak / 1000
+		if least < peak {
+			lo = math.Max(lo, roundBelow(least))
+		}
 		l0, span := math.Log(lo), math.Log(peak/lo)
 		return lo, func(v float64) float64 {
 			if !(v > lo) {
@@ -130,16 +142,16 @@ func (f *figure) magnitudeScale(peak float64) (lo float64, t func(float64) float
 }
 
 func (f *figure) prepareMagnitude() {
-	peak, px, py := f.nodePeak()
+	peak, px, py, least := f.nodePeak()
 	fu := fieldUnit(peak, f.unit)
-	lo, t := f.magnitudeScale(peak)
-	sol := f.sol
+	lo, t := f.magnitudeScale(peak, least)
+	fs := newFieldSampler(f.sol)
 	f.layers = append(f.layers,
 		rasterLayer(func(x, y float64) color.NRGBA {
 			if f.sc.at(x, y).cond >= 0 {
 				return metal
 			}
-			ex, ey, _ := sol.FieldAt(x, y)
+			ex, ey, _ := fs.at(x, y)
 			return scaleColor(t(math.Hypot(ex, ey)))
 		}),
 		f.outlineLayer(),
@@ -156,15 +168,61 @@ func (f *figure) prepareMagnitude() {
 	}
 	detail := "linear colour scale"
 	if f.o.LogScale {
-		detail = "logarithmic colour scale over three decades"
+		detail = "logarithmic colour scale"
 	}
 	f.heading("Electric field strength |E|", detail)
 	if peak > 0 {
+		where := "at a grid node"
+		if k := f.conductorBeside(px, py); k >= 0 {
+			where = "at a grid node beside " + f.p.Conductors[k].Name
+		}
+		if sp, sx, sy, k := f.surfacePeak(); sp >= peak {
+			peak, px, py = sp, sx, sy
+			where = "on the surface of " + f.p.Conductors[k].Name
+		}
 		f.layers = append(f.layers, markLayer(pt{px, py}))
 		f.notes = append(f.notes, fmt.Sprintf(
-			"Largest |E| at a grid node: %s %s at %s (ringed); at sharp edges and corners the field grows without bound as the grid is refined, so read such peaks with care.",
-			formatSig(peak/fu.Factor), fu.Name, f.lengthLabel(px, py)))
+			"Largest |E|: %s %s %s at %s (ringed). At sharp edges and corners the field grows without bound as the grid is refined; read such peaks with care.",
+			formatSig(peak/fu.Factor), fu.Name, where, f.lengthLabel(px, py)))
 	}
+}
+
+// conductorBeside returns the conductor of a node next to the node at
+// (x, y), or −1.
+func (f *figure) conductorBeside(x, y float64) int {
+	g, m := f.sol.Grid, f.sol.Map
+	i, j, s, t, ok := g.Locate(x, y)
+	if !ok {
+		return -1
+	}
+	if s > 0.5 {
+		i++
+	}
+	if t > 0.5 {
+		j++
+	}
+	for _, d := range [][2]int{{1, 0}, {-1, 0}, {0, 1}, {0, -1}} {
+		a, b := i+d[0], j+d[1]
+		if a >= 0 && b >= 0 && a < g.Nx() && b < g.Ny() {
+			if c := m.Cond[g.Index(a, b)]; c >= 0 {
+				return int(c)
+			}
+		}
+	}
+	return -1
+}
+
+// surfacePeak returns the largest normal field on any conductor surface
+// (field.Solution.SurfaceField), where it is and on which conductor.
+func (f *figure) surfacePeak() (peak, x, y float64, cond int) {
+	for k := range f.p.Conductors {
+		for _, p := range f.sol.SurfaceField(k) {
+			if v := math.Abs(p.En); v > peak {
+				peak, x, y, cond = v, p.X, p.Y, k
+			}
+		}
+	}
+	return peak, x, y, cond
 }
 
 // markLayer rings a point of the picture.
@@ -197,14 +255,14 @@ func (f *figure) prepareArrows() {
 		levels, _ := f.equipotentials(lo, hi)
 		cs = f.contours(levels)
 	}
-	peak, _, _ := f.nodePeak()
+	peak, _, _, least := f.nodePeak()
 	fu := fieldUnit(peak, f.unit)
 	spacing := new(float64)
 	mode := f.o.ArrowMode
 	var colourT func(float64) float64
 	if mode == EqualLength {
 		var blo float64
-		blo, colourT = f.magnitudeScale(peak)
+		blo, colourT = f.magnitudeScale(peak, least)
 		hi := peak
 		if !(hi > blo) {
 			hi = blo + 1
@@ -217,7 +275,7 @@ func (f *figure) prepareArrows() {
 	} else {
 		f.key = &arrowKey{spacing: spacing}
 	}
-	sol := f.sol
+	fs := newFieldSampler(f.sol)
 	f.layers = append(f.layers,
 		func(v *view) {
 			v.c.SetColor(white)
@@ -244,7 +302,7 @@ func (f *figure) prepareArrows() {
 					if f.sc.at(mp.x, mp.y).cond >= 0 {
 						continue
 					}
-					ex, ey, ok := sol.FieldAt(mp.x, mp.y)
+					ex, ey, ok := fs.at(mp.x, mp.y)
 					mag := math.Hypot(ex, ey)
 					if !ok || mag == 0 {
 						continue

@@ -41,6 +41,17 @@ func (f *figure) contourLayer(cs contourSet, width vg.Length, colour func(level 
 				all = append(all, pts)
 			}
 		}
+		// Region boundaries too, so that no label sits on an outline.
+		for _, b := range f.boundaries() {
+			pts := make([]vg.Point, len(b.pts))
+			for k, p := range b.pts {
+				pts[k] = v.pt(p)
+			}
+			if b.closed && len(pts) > 0 {
+				pts = append(pts, pts[0])
+			}
+			all = append(all, pts)
+		}
 		idx := newSegIndex(all, 24)
 		id := 0
 		for i, lv := range cs.levels {

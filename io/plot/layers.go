@@ -17,13 +17,21 @@ func (f *figure) segment() float64 {
 	return math.Max(d.X1-d.X0, d.Y1-d.Y0) / 900
 }
 
+// boundaries returns the region boundaries of the problem, computed once.
+func (f *figure) boundaries() []boundary {
+	if f.bounds == nil {
+		f.bounds = f.sc.boundaries(f.segment())
+	}
+	return f.bounds
+}
+
 // outlineLayer draws the boundaries of every region: conductors solid,
 // dielectric interfaces dashed, charge regions dotted, each dashed line on
 // a light halo so that it reads on dark and light colours alike; then
 // conductor sides of the domain as heavy bars and point charges as signed
 // dots.
 func (f *figure) outlineLayer() layer {
-	bs := f.sc.boundaries(f.segment())
+	bs := f.boundaries()
 	return func(v *view) {
 		fs := vg.Length(f.fs)
 		for _, b := range bs {

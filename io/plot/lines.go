@@ -35,16 +35,16 @@ type seed struct {
 // tracer follows field lines through a solution.
 type tracer struct {
 	sol  *field.Solution
+	fs   *fieldSampler
 	p    *bc.Problem
 	sc   *scene
 	peak float64 // largest |E| at a node, for the stall test
 }
 
 func newTracer(sol *field.Solution, p *bc.Problem, sc *scene) *tracer {
-	t := &tracer{sol: sol, p: p, sc: sc}
-	ex, ey := sol.NodeFieldTo(nil, nil)
-	for n := range ex {
-		t.peak = math.Max(t.peak, math.Hypot(ex[n], ey[n]))
+	t := &tracer{sol: sol, fs: newFieldSampler(sol), p: p, sc: sc}
+	for n := range t.fs.ex {
+		t.peak = math.Max(t.peak, math.Hypot(t.fs.ex[n], t.fs.ey[n]))
 	}
 	return t
 }
@@ -73,7 +73,7 @@ func (t *tracer) surface(seg float64) [][]surfaceElement {
 		ds := math.Hypot(b.x-a.x, b.y-a.y)
 		off := 0.5 * localStep(g, m.x, m.y)
 		q := pt{m.x + off*nx, m.y + off*ny}
-		ex, ey, ok := t.sol.FieldAt(q.x, q.y)
+		ex, ey, ok := t.fs.at(q.x, q.y)
 		if !ok {
 			return
 		}
@@ -268,7 +268,7 @@ func (t *tracer) trace(s seed) fieldLine {
 	line := fieldLine{pts: []pt{s.p, p}, sign: s.sign}
 	dir := func(q pt) (float64, float64, bool) {
 		q = clampToDomain(q, d)
-		ex, ey, ok := t.sol.FieldAt(q.x, q.y)
+		ex, ey, ok := t.fs.at(q.x, q.y)
 		if !ok {
 			return 0, 0, false
 		}

@@ -79,9 +79,10 @@ type Options struct {
 	// fits the picture to the domain's aspect ratio. Both are at most
 	// MaxSize.
 	Width, Height int
-	// LogScale draws |E| on a logarithmic colour scale spanning three
-	// decades below the peak (FieldMagnitude, and the colours of
-	// EqualLength arrows).
+	// LogScale draws |E| on a logarithmic colour scale (FieldMagnitude,
+	// and the colours of EqualLength arrows) from the smallest field,
+	// rounded down to 1, 2 or 5 × 10ᵏ, but at most three decades below
+	// the peak.
 	LogScale bool
 	// ArrowMode sets the arrow lengths of an Arrows picture.
 	ArrowMode ArrowMode
@@ -134,7 +135,18 @@ func Draw(w io.Writer, format string, sol *field.Solution, p *bc.Problem, o Opti
 	if err := f.render(draw.New(c)); err != nil {
 		return err
 	}
-	if _, err := out.WriteTo(w); err != nil {
+	var buf bytes.Buffer
+	if _, err := out.WriteTo(&buf); err != nil {
+		return fmt.Errorf("plot: encoding the %s picture: %w", format, err)
+	}
+	data := buf.Bytes()
+	if format == "svg" {
+		// Liberation Sans has the metrics of Arial and Helvetica: name
+		// them as fallbacks so that the text keeps its layout where the
+		// viewer lacks the font.
+		data = bytes.ReplaceAll(data, []byte("font-family:Liberation Sans;"), []byte("font-family:'Liberation Sans',Arial,Helvetica,sans-serif;"))
+	}
+	if _, err := w.Write(data); err != nil {
 		return fmt.Errorf("plot: writing the %s picture: %w", format, err)
 	}
 	return nil

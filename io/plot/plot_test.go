@@ -126,6 +126,9 @@ func TestPictures(t *testing.T) {
 				}
 				save(t, fmt.Sprintf("%s-%s.svg", sc.name, pc.name), buf.Bytes())
 				checkSVG(t, buf.Bytes())
+				if !strings.Contains(buf.String(), "'Liberation Sans',Arial") {
+					t.Error("SVG text names no fallback font")
+				}
 				if pc.o.Kind != Potential && !strings.Contains(buf.String(), "Electrostatic estimate") {
 					t.Error("a field picture lacks the caution")
 				}

@@ -102,14 +102,17 @@ func linearTicks(lo, hi float64, n int) []tick {
 }
 
 // logTicks returns ticks for a logarithmic scale over [lo, hi] (lo > 0):
-// every decade, and 2 and 5 times each decade when the range spans at
-// most three decades.
+// every decade; also 2 and 5 times each decade when the range spans at
+// most three decades, and 1.5, 2, 3, 4, 5, 6 and 8 times it within one.
 func logTicks(lo, hi float64) []tick {
 	if !(lo > 0) || !(hi > lo) {
 		return nil
 	}
 	mult := []float64{1}
-	if math.Log10(hi/lo) <= 3+1e-9 {
+	switch d := math.Log10(hi / lo); {
+	case d <= 1+1e-9:
+		mult = []float64{1, 1.5, 2, 3, 4, 5, 6, 8}
+	case d <= 3+1e-9:
 		mult = []float64{1, 2, 5}
 	}
 	var out []tick

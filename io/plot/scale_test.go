@@ -50,6 +50,7 @@ func TestTicks(t *testing.T) {
 		{"linear, axis in mm", linearTicks(-5, 5, 10), []string{"−5", "−4", "−3", "−2", "−1", "0", "1", "2", "3", "4", "5"}},
 		{"log, three decades with 1-2-5", logTicks(0.00476, 4.76), []string{"0.005", "0.01", "0.02", "0.05", "0.1", "0.2", "0.5", "1", "2"}},
 		{"log, wide range decades only", logTicks(1, 1e5), []string{"1", "10", "100", "1000", "10000", "100000"}},
+		{"log, within a decade", logTicks(200, 914), []string{"200", "300", "400", "500", "600", "800"}},
 		{"log, empty", logTicks(0, 1), nil},
 	} {
 		var got []string
