@@ -129,17 +129,12 @@ func chargeUnit(g *grid.Grid) string {
 // estimateMemory returns the bytes a solve is expected to hold: the map,
 // the system, the solution and the solver's workspace.
 func estimateMemory(nx, ny int, m solve.Method) int64 {
-	per := int64(64) // system (diagonal, two couplings, flags, charge parts) and the solution
-	switch m {
-	case solve.SOR:
-		per += 16
-	case solve.CG:
-		per += 40
-	default:
-		per += 90
-	}
-	return int64(nx*ny) * (per + mapBytesPerNode)
+	return solve.EstimateMemory(nx, ny, m) + int64(nx*ny)*(mapBytesPerNode+systemBytesPerNode)
 }
+
+// systemBytesPerNode is the assembled system (about 41 bytes per node)
+// and the right-hand side, potential and one field vector.
+const systemBytesPerNode = 41 + 3*8
 
 // mapBytesPerNode is the rasterised map's share: kind, conductor index,
 // prescribed value, cut fractions and the per-cell materials.

@@ -197,7 +197,7 @@ func TestExportMatrix(t *testing.T) {
 	if _, err := solve.Solve(context.Background(), p.sys, full, phi, &solve.Settings{Tol: 1e-12}); err != nil {
 		t.Fatal(err)
 	}
-	x := freeSystem(p.sys).restrict(phi)
+	x := p.sys.FreeVector(nil, phi)
 	if a.Rows != len(x) || len(b) != len(x) {
 		t.Fatalf("sizes: A %d×%d, b %d, unknowns %d", a.Rows, a.Cols, len(b), len(x))
 	}

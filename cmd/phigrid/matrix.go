@@ -10,7 +10,6 @@ import (
 	"strconv"
 
 	"github.com/phigrid/phigrid/io/export"
-	"github.com/phigrid/phigrid/solve"
 )
 
 func init() {
@@ -52,8 +51,8 @@ func runExportMatrix(ctx context.Context, e *env, fs *flag.FlagSet, opts any) er
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return fmt.Errorf("creating the output directory: %w", err)
 	}
-	fs2 := freeSystem(p.sys)
-	comment := fmt.Sprintf("phigrid %s: %s, %d unknowns on a %d × %d grid", version, p.model.Name, fs2.n, p.sys.Nx, p.sys.Ny)
+	index, n := p.sys.FreeIndex()
+	comment := fmt.Sprintf("phigrid %s: %s, %d unknowns on a %d × %d grid", version, p.model.Name, n, p.sys.Nx, p.sys.Ny)
 	write := func(name string, w func(io.Writer) error) error {
 		if err := ctx.Err(); err != nil {
 			return err
@@ -65,7 +64,7 @@ func runExportMatrix(ctx context.Context, e *env, fs *flag.FlagSet, opts any) er
 		return nil
 	}
 	if err := write("A.mtx", func(w io.Writer) error {
-		return export.WriteMatrixMarket(w, fs2.n, fs2.entries, true, comment)
+		return export.WriteMatrixMarket(w, n, p.sys.Entries, true, comment)
 	}); err != nil {
 		return err
 	}
@@ -75,7 +74,7 @@ func runExportMatrix(ctx context.Context, e *env, fs *flag.FlagSet, opts any) er
 	}
 	b := p.sys.RHS(nil, v, true, true)
 	if err := write("b.mtx", func(w io.Writer) error {
-		return export.WriteMatrixMarketVector(w, fs2.restrict(b), comment+"; right-hand side of the model")
+		return export.WriteMatrixMarketVector(w, p.sys.FreeVector(nil, b), comment+"; right-hand side of the model")
 	}); err != nil {
 		return err
 	}
@@ -84,70 +83,23 @@ func runExportMatrix(ctx context.Context, e *env, fs *flag.FlagSet, opts any) er
 		v[k] = 1
 		bk := p.sys.RHS(nil, v, false, false)
 		if err := write("b-"+c.Name+".mtx", func(w io.Writer) error {
-			return export.WriteMatrixMarketVector(w, fs2.restrict(bk), comment+"; conductor "+c.Name+" at 1 V")
+			return export.WriteMatrixMarketVector(w, p.sys.FreeVector(nil, bk), comment+"; conductor "+c.Name+" at 1 V")
 		}); err != nil {
 			return err
 		}
 	}
 	return write("unknowns.csv", func(w io.Writer) error {
 		x, y := p.grid.X(), p.grid.Y()
-		rows := make([][]string, 0, fs2.n)
-		for k, n := range fs2.nodes {
-			i, j := n%p.sys.Nx, n/p.sys.Nx
-			rows = append(rows, []string{strconv.Itoa(k + 1), strconv.Itoa(i), strconv.Itoa(j), export.FormatFloat(x[i]), export.FormatFloat(y[j])})
+		rows := make([][]string, 0, n)
+		for node, k := range index {
+			if k < 0 {
+				continue
+			}
+			i, j := node%p.sys.Nx, node/p.sys.Nx
+			rows = append(rows, []string{strconv.Itoa(int(k) + 1), strconv.Itoa(i), strconv.Itoa(j), export.FormatFloat(x[i]), export.FormatFloat(y[j])})
 		}
 		return export.WriteCSV(w, []string{"unknown", "i", "j", "x_m", "y_m"}, rows)
 	})
-}
-
-// free is the system restricted to the free nodes, numbered in grid
-// index order.
-type free struct {
-	sys   *solve.System
-	n     int
-	nodes []int   // grid index of every unknown
-	num   []int32 // unknown number of every grid node, −1 when fixed
-}
-
-func freeSystem(s *solve.System) *free {
-	f := &free{sys: s, num: make([]int32, s.Len())}
-	for i, fixed := range s.Fixed {
-		f.num[i] = -1
-		if !fixed {
-			f.num[i] = int32(len(f.nodes))
-			f.nodes = append(f.nodes, i)
-		}
-	}
-	f.n = len(f.nodes)
-	return f
-}
-
-// entries emits the lower triangle of the free-node matrix: the diagonal
-// and −coupling to the −X and −Y neighbours.
-func (f *free) entries(emit func(i, j int, v float64)) {
-	s := f.sys
-	for k, n := range f.nodes {
-		emit(k, k, s.Diag[n])
-		if n%s.Nx > 0 {
-			if m := f.num[n-1]; m >= 0 && s.AX[n-1] != 0 {
-				emit(k, int(m), -s.AX[n-1])
-			}
-		}
-		if n >= s.Nx {
-			if m := f.num[n-s.Nx]; m >= 0 && s.AY[n-s.Nx] != 0 {
-				emit(k, int(m), -s.AY[n-s.Nx])
-			}
-		}
-	}
-}
-
-// restrict returns the free rows of a full-grid vector.
-func (f *free) restrict(b []float64) []float64 {
-	out := make([]float64, f.n)
-	for k, n := range f.nodes {
-		out[k] = b[n]
-	}
-	return out
 }
 
 func trimExt(name string) string { return name[:len(name)-len(filepath.Ext(name))] }
