@@ -70,11 +70,16 @@
 //	                                  "potential", "floating", "charge"}]
 //	map.regions     json      —      the map's regions (optional), as in
 //	                                  "problem"
+//	map.sides       json      4      the map's sides, as in "problem"
+//	map.far         json      —      the far field of open sides:
+//	                                  {"x", "y", "decay"}
 //	map.kind        uint8     N      node kinds: 0 free, 1 on a conductor,
 //	                                  2 prescribed
 //	map.cond        int32     N      conductor index per node, −1 for none
 //	map.value       float64   N      prescribed node potentials, V
 //	map.eps         float64   C      relative permittivity per cell
+//	map.epsx        float64   2C     directional permittivities of
+//	map.epsy                         half-cells (optional; both or none)
 //	map.rho         float64   C      charge density per cell, C/m³
 //	                                  (optional)
 //	map.point       float64   N      concentrated charge per node
@@ -91,17 +96,23 @@
 // An optional section that is absent reads back as a nil slice; one that
 // is present with no elements reads back as an empty slice.
 //
-// The "problem" section is a JSON object {"metric", "domain", "background",
-// "conductors", "regions", "charges", "sides"}. Each region holds its shape
-// as an object tagged by "type": {"type": "rect", "x0", "y0", "x1", "y1"},
-// {"type": "circle", "x", "y", "r"}, {"type": "annulus", "x", "y", "r0",
-// "r1"}, {"type": "polygon", "x": [...], "y": [...]} or {"type": "strip",
-// "x0", "y0", "x1", "y1", "thickness"}. A side is {"kind": "zero-flux" |
-// "fixed", "conductor", "potential", "func"}. A potential prescribed by a
-// Go function (bc.Side.Func) cannot be stored: "func" is then true and the
-// prescribed node values in "map.value" stand for it; Read gives such a
-// side a Func that interpolates those values linearly along the side, so
-// rasterising the problem again on the archived grid reproduces the map.
+// The "problem" section is a JSON object {"metric", "domain",
+// "background", "conductors", "regions", "charges", "sides", "far"}: the
+// domain is a rect shape (below), "far" is null or {"x", "y", "decay"},
+// and a region is {"name", "kind": "dielectric" | "conductor" | "charge",
+// "conductor", "eps_r", "rho", "shape"}. A shape is an object tagged by
+// "type": {"type": "rect", "x0", "y0", "x1", "y1"}, {"type": "circle",
+// "x", "y", "r"}, {"type": "annulus", "x", "y", "r0", "r1"}, {"type":
+// "polygon", "x": [...], "y": [...]} or {"type": "strip", "x0", "y0",
+// "x1", "y1", "thickness"}. A side is {"kind": "zero-flux" | "fixed" |
+// "open", "conductor", "potential", "func"}; a point charge {"name", "x",
+// "y", "q"}. A potential prescribed by a Go function (bc.Side.Func) cannot
+// be stored: "func" is then true and the prescribed node values in
+// "map.value" stand for it; Read gives such a side (in the problem and in
+// the map) a Func that interpolates those values linearly along the side,
+// so rasterising the problem again on the archived grid reproduces the
+// map. Lengths are in metres, potentials in volts, charge densities in
+// C/m³ and charges in C/m (planar) or C (axisymmetric).
 //
 // # Limits
 //
