@@ -105,7 +105,7 @@ func runPlot(ctx context.Context, e *env, fs *flag.FlagSet, opts any) error {
 			return err
 		}
 		if o.log {
-			pic.Kind = pic.Kind + "+log"
+			pic.LogScale = true
 		}
 		out := filepath.Join(dir, pic.File)
 		if err := drawPicture(out, sol, a.Problem, pic, title, unit); err != nil {
@@ -120,13 +120,8 @@ func runPlot(ctx context.Context, e *env, fs *flag.FlagSet, opts any) error {
 // drawPicture draws one model picture request to path.
 func drawPicture(path string, sol *field.Solution, p *bc.Problem, pic model.Picture, title string, u model.Unit) error {
 	o := plot.Options{Width: pic.Width, Height: pic.Height, Levels: pic.Contours, Lines: pic.Lines, Title: title,
-		Unit: plot.Unit{Name: u.Name, Scale: u.Scale}}
-	kind := pic.Kind
-	if strings.HasSuffix(kind, "+log") {
-		kind = strings.TrimSuffix(kind, "+log")
-		o.LogScale = true
-	}
-	switch kind {
+		Unit: plot.Unit{Name: u.Name, Scale: u.Scale}, LogScale: pic.LogScale}
+	switch pic.Kind {
 	case model.PotentialMap:
 		o.Kind = plot.Potential
 	case model.FieldMap:
