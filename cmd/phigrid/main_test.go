@@ -224,3 +224,29 @@ func assertNoTemp(t *testing.T, dir string) {
 		}
 	}
 }
+
+func TestBenchSmall(t *testing.T) {
+	code, out, errs := runCLI(t, "bench", "-q", "--max-nodes", "5000", "--sizes", "33,65", "--examples", "", "--json")
+	if code != exitOK {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var r struct {
+		Rows []struct {
+			Case       string  `json:"case"`
+			Solver     string  `json:"solver"`
+			Iterations int     `json:"iterations"`
+			Residual   float64 `json:"relative_residual"`
+		} `json:"rows"`
+	}
+	if err := json.Unmarshal([]byte(out), &r); err != nil {
+		t.Fatalf("bench --json: %v\n%s", err, out)
+	}
+	if len(r.Rows) != 6 {
+		t.Fatalf("got %d rows, want 2 sizes × 3 solvers", len(r.Rows))
+	}
+	for _, row := range r.Rows {
+		if row.Residual > 1e-8 || row.Iterations < 1 {
+			t.Errorf("%s %s: residual %g after %d iterations", row.Case, row.Solver, row.Residual, row.Iterations)
+		}
+	}
+}
