@@ -144,10 +144,11 @@ func newMultigrid(sys *System, k *kernels, set Settings) *Multigrid {
 			l.ncx, l.ncy = ncx, ncy
 			l.computeWeights()
 		}
-		if f, ok := cur.(*fineLevel); ok {
-			galerkinFine(f, c, m.runner(ncx*ncy))
-		} else {
-			galerkin(cur, c, m.runner(ncx*ncy))
+		switch l := cur.(type) {
+		case *fineLevel:
+			galerkinFine(l, c, m.runner(ncx*ncy))
+		case *coarseLevel:
+			galerkinCoarse(l, c, m.runner(ncx*ncy))
 		}
 		c.smoother = chooseSmoother(c)
 		m.cs = append(m.cs, c)

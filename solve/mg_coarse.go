@@ -325,68 +325,68 @@ func (l *coarseLevel) prolongBlocks(lo, hi int) {
 // nodes are zero, so corrections vanish on conductors.
 func (l *coarseLevel) computeWeights() {
 	ncx, ncy := l.ncx, l.ncy
+	nx, ny, st := l.nx, l.ny, l.st
+	c, w, sa, sw, se, fx := l.c, l.w, l.s, l.sw, l.se, l.fixed
 	l.p = make([]float64, pLen*ncx*ncy)
-	var a [9]float64
+	p := l.p
 	for J := 0; J < ncy; J++ {
 		for I := 0; I < ncx; I++ {
 			k := (I + ncx*J) * pLen
 			i, j := 2*I, 2*J
-			if i+1 < l.nx && !l.isFixed(i+1, j) {
-				l.row(i+1, j, &a)
-				wW, wE := edgeWeights(a[sSW]+a[sW]+a[sNW], a[sSE]+a[sE]+a[sNE], a[sS]+a[sC]+a[sN], a[sC])
-				if l.isFixed(i, j) {
+			q := l.idx(i, j)
+			if e := q + 1; i+1 < nx && !fx[e] {
+				wW, wE := edgeWeights(sw[e]+w[e]+se[e+st-1], se[e]+w[e+1]+sw[e+st+1], sa[e]+c[e]+sa[e+st], c[e])
+				if fx[q] {
 					wW = 0
 				}
-				if i+2 >= l.nx || l.isFixed(i+2, j) {
+				if i+2 >= nx || fx[q+2] {
 					wE = 0
 				}
-				l.p[k+pXW], l.p[k+pXE] = wW, wE
+				p[k+pXW], p[k+pXE] = wW, wE
 			}
-			if j+1 < l.ny && !l.isFixed(i, j+1) {
-				l.row(i, j+1, &a)
-				wS, wN := edgeWeights(a[sSW]+a[sS]+a[sSE], a[sNW]+a[sN]+a[sNE], a[sW]+a[sC]+a[sE], a[sC])
-				if l.isFixed(i, j) {
+			if g := q + st; j+1 < ny && !fx[g] {
+				wS, wN := edgeWeights(sw[g]+sa[g]+se[g], se[g+st-1]+sa[g+st]+sw[g+st+1], w[g]+c[g]+w[g+1], c[g])
+				if fx[q] {
 					wS = 0
 				}
-				if j+2 >= l.ny || l.isFixed(i, j+2) {
+				if j+2 >= ny || fx[q+2*st] {
 					wN = 0
 				}
-				l.p[k+pYS], l.p[k+pYN] = wS, wN
+				p[k+pYS], p[k+pYN] = wS, wN
 			}
 		}
 	}
 	for J := 0; J < ncy; J++ {
 		for I := 0; I < ncx; I++ {
 			i, j := 2*I, 2*J
-			if i+1 >= l.nx || j+1 >= l.ny || l.isFixed(i+1, j+1) {
+			q := l.idx(i, j)
+			m := q + st + 1
+			if i+1 >= nx || j+1 >= ny || fx[m] {
 				continue
 			}
 			k := (I + ncx*J) * pLen
-			l.row(i+1, j+1, &a)
 			// Edge weights of the centre's four neighbours.
-			yW := l.p[k+pYS : k+pYN+1]
-			xS := l.p[k+pXW : k+pXE+1]
 			var yE, xN [2]float64
 			if I+1 < ncx {
-				ke := k + pLen
-				yE = [2]float64{l.p[ke+pYS], l.p[ke+pYN]}
+				yE = [2]float64{p[k+pLen+pYS], p[k+pLen+pYN]}
 			}
 			if J+1 < ncy {
 				kn := k + ncx*pLen
-				xN = [2]float64{l.p[kn+pXW], l.p[kn+pXE]}
+				xN = [2]float64{p[kn+pXW], p[kn+pXE]}
 			}
-			var m [4]float64
-			m[0] = a[sSW] + a[sW]*yW[0] + a[sS]*xS[0]
-			m[1] = a[sSE] + a[sE]*yE[0] + a[sS]*xS[1]
-			m[2] = a[sNW] + a[sW]*yW[1] + a[sN]*xN[0]
-			m[3] = a[sNE] + a[sE]*yE[1] + a[sN]*xN[1]
-			corner := [4]bool{l.isFixed(i, j), i+2 >= l.nx || l.isFixed(i+2, j), j+2 >= l.ny || l.isFixed(i, j+2),
-				i+2 >= l.nx || j+2 >= l.ny || l.isFixed(i+2, j+2)}
-			for q := range m {
-				if corner[q] {
-					continue
+			aW, aE, aS, aN := w[m], w[m+1], sa[m], sa[m+st]
+			ms := [4]float64{
+				sw[m] + aW*p[k+pYS] + aS*p[k+pXW],
+				se[m] + aE*yE[0] + aS*p[k+pXE],
+				se[m+st-1] + aW*p[k+pYN] + aN*xN[0],
+				sw[m+st+1] + aE*yE[1] + aN*xN[1],
+			}
+			noE, noN := i+2 >= nx, j+2 >= ny
+			corner := [4]bool{fx[q], noE || fx[q+2], noN || fx[q+2*st], noE || noN || fx[q+2*st+2]}
+			for t := range ms {
+				if !corner[t] {
+					p[k+pSW+t] = -ms[t] / c[m]
 				}
-				l.p[k+pSW+q] = -m[q] / a[sC]
 			}
 		}
 	}

@@ -147,6 +147,37 @@ func TestGalerkinIsTripleProduct(t *testing.T) {
 	}
 }
 
+func TestGalerkinCoarseMatchesGeneral(t *testing.T) {
+	for _, c := range mgCases {
+		for _, n := range []int{33, 35, 36} {
+			s := c.build(t, n)
+			m, _, c1, _ := testLevels(t, s)
+			a, b := newCoarseLevel(c1.ncx, c1.ncy), newCoarseLevel(c1.ncx, c1.ncy)
+			galerkin(c1, a, serial)
+			galerkinCoarse(c1, b, serial)
+			compareStencils(t, c.name, n, a, b)
+			m.Close()
+		}
+	}
+}
+
+func compareStencils(t *testing.T, name string, n int, a, b *coarseLevel) {
+	t.Helper()
+	for k, pair := range [][2][]float64{{a.c, b.c}, {a.w, b.w}, {a.s, b.s}, {a.sw, b.sw}, {a.se, b.se}} {
+		scale := 0.0
+		for i := range pair[0] {
+			if !a.fixed[i] {
+				scale = math.Max(scale, math.Abs(pair[0][i]))
+			}
+		}
+		for i := range pair[0] {
+			if math.Abs(pair[0][i]-pair[1][i]) > 1e-11*scale {
+				t.Fatalf("%s %d: stencil %d entry %d: %g vs %g", name, n, k, i, pair[0][i], pair[1][i])
+			}
+		}
+	}
+}
+
 func TestGalerkinFineMatchesGeneral(t *testing.T) {
 	for _, c := range mgCases {
 		for _, n := range []int{17, 18, 33} {
