@@ -58,11 +58,11 @@ type Report struct {
 	// Regions holds the peak field in every dielectric material, the
 	// background first.
 	Regions []Peak `json:"regions,omitempty"`
-	// Estimates are the error estimates of a grid-convergence study, when
-	// one was run.
-	Estimates []Estimate `json:"estimates,omitempty"`
-	Probes    []Probe    `json:"probes,omitempty"`
-	Cuts      []Cut      `json:"cuts,omitempty"`
+	// Convergence holds the error estimates of a grid-convergence study,
+	// when one was run.
+	Convergence *Convergence `json:"convergence,omitempty"`
+	Probes      []Probe      `json:"probes,omitempty"`
+	Cuts        []Cut        `json:"cuts,omitempty"`
 	// Caution is the safety note (the constant Caution) whenever the
 	// report shows a field strength, and empty otherwise.
 	Caution string `json:"caution,omitempty"`
@@ -161,17 +161,39 @@ type Peak struct {
 	At    Position `json:"at"`
 }
 
+// Convergence is a grid-convergence study: the problem solved on a
+// sequence of refined grids, and the error estimate of every quantity.
+type Convergence struct {
+	// Levels describes the grids, coarsest first.
+	Levels []Level `json:"levels"`
+	// Estimates holds one entry per quantity.
+	Estimates []Estimate `json:"estimates"`
+}
+
+// Level is one grid of a convergence study.
+type Level struct {
+	Nodes int `json:"nodes"`
+	Cells int `json:"cells"`
+	// H is the representative cell size in metres (the mean spacing).
+	H float64 `json:"h_m"`
+}
+
 // Estimate is the error estimate of one quantity from a grid-convergence
-// study.
+// study (see field.Estimate for the method).
 type Estimate struct {
-	// Quantity names the figure, such as "C[hv,hv]", "energy" or
-	// "peak field hv".
+	// Quantity names the figure: "C(hv,gnd)", "Q(hv)", "W", "Esurf(hv)",
+	// "Emax(oil)".
 	Quantity string `json:"quantity"`
-	// Unit is the SI unit of Value, Extrapolated and Band.
+	// Unit is the SI unit of the values, the extrapolation and the band.
 	Unit string `json:"unit"`
-	// Value is the figure on the finest grid.
-	Value float64 `json:"value"`
-	// Order is the observed order of convergence.
+	// Value is the figure on the finest grid; Values on every grid,
+	// coarsest first.
+	Value  float64   `json:"value"`
+	Values []float64 `json:"values"`
+	// Observed is the observed order of convergence, or nil when the
+	// values showed none (two grids, oscillating or not converging).
+	Observed *float64 `json:"observed_order"`
+	// Order is the order used for the extrapolation and the band.
 	Order float64 `json:"order"`
 	// Extrapolated is the Richardson estimate of the grid-independent
 	// value.
@@ -179,6 +201,9 @@ type Estimate struct {
 	// Band is the half-width of the error band about Value: the exact
 	// value is estimated to lie in Value ± Band.
 	Band float64 `json:"band"`
+	// Note explains a widened band ("two levels", "oscillating", "not
+	// converging", "peak value").
+	Note string `json:"note,omitempty"`
 }
 
 // Probe is the potential and field at one requested point.
@@ -242,9 +267,10 @@ type BuildOptions struct {
 	// Probes and Cuts are the points and lines to sample, in metres.
 	Probes []Point
 	Cuts   []Line
-	// Convergence holds the estimates of a grid-convergence study, copied
-	// into the report as they are.
-	Convergence []Estimate
+	// Convergence is a grid-convergence study of the problem (from
+	// field.Converge or field.ConvergeGrids), whose estimates the report
+	// lists; nil means none was run.
+	Convergence *field.Convergence
 }
 
 // Build makes the report of a solution. c is the Maxwell capacitance matrix
@@ -305,7 +331,7 @@ func Build(sol *field.Solution, c [][]float64, opts BuildOptions) (*Report, erro
 		r.Conductors = append(r.Conductors, rc)
 	}
 	r.Regions = b.regionPeaks()
-	r.Estimates = append([]Estimate(nil), opts.Convergence...)
+	r.Convergence = convergence(opts.Convergence)
 	for n, p := range opts.Probes {
 		pr, err := b.probe(n, p)
 		if err != nil {
@@ -327,14 +353,47 @@ func Build(sol *field.Solution, c [][]float64, opts BuildOptions) (*Report, erro
 }
 
 // ShowsField reports whether the report holds any field strength: a peak
-// field, a probe or a line cut.
+// field, an error estimate of one, a probe or a line cut.
 func (r *Report) ShowsField() bool {
 	for _, c := range r.Conductors {
 		if c.PeakField != nil {
 			return true
 		}
 	}
+	if r.Convergence != nil {
+		for _, e := range r.Convergence.Estimates {
+			if e.Unit == "V/m" {
+				return true
+			}
+		}
+	}
 	return len(r.Regions) > 0 || len(r.Probes) > 0 || len(r.Cuts) > 0
+}
+
+// convergence copies a study into the report's form.
+func convergence(c *field.Convergence) *Convergence {
+	if c == nil {
+		return nil
+	}
+	out := &Convergence{Levels: []Level{}, Estimates: []Estimate{}}
+	for _, l := range c.Levels {
+		out.Levels = append(out.Levels, Level{Nodes: l.Nodes, Cells: l.Cells, H: l.H})
+	}
+	for _, e := range c.Estimates {
+		re := Estimate{
+			Quantity: e.Name, Unit: e.Unit, Values: append([]float64{}, e.Values...),
+			Order: e.Order, Extrapolated: e.Extrapolated, Band: e.Band, Note: e.Note,
+		}
+		if len(e.Values) > 0 {
+			re.Value = e.Finest()
+		}
+		if !math.IsNaN(e.Observed) && !math.IsInf(e.Observed, 0) {
+			o := e.Observed
+			re.Observed = &o
+		}
+		out.Estimates = append(out.Estimates, re)
+	}
+	return out
 }
 
 func units(m grid.Metric, u Unit) Units {

@@ -1,6 +1,7 @@
 package report
 
 import (
+	"bytes"
 	"fmt"
 	"io"
 	"math"
@@ -51,7 +52,40 @@ func (e *errWriter) Write(p []byte) (int, error) {
 }
 
 // table returns a tab writer for an indented table on w.
-func table(w io.Writer) *tabwriter.Writer { return tabwriter.NewWriter(w, 0, 0, 2, ' ', 0) }
+func table(w io.Writer) *tabwriter.Writer {
+	return tabwriter.NewWriter(&trimWriter{w: w}, 0, 0, 2, ' ', 0)
+}
+
+// trimWriter drops the spaces that padding leaves at the end of a line.
+// It holds back a partial line until its newline arrives; every line of a
+// table ends with one.
+type trimWriter struct {
+	w    io.Writer
+	line []byte
+}
+
+func (t *trimWriter) Write(p []byte) (int, error) {
+	n := len(p)
+	var out []byte
+	for {
+		i := bytes.IndexByte(p, '\n')
+		if i < 0 {
+			t.line = append(t.line, p...)
+			break
+		}
+		t.line = append(t.line, p[:i]...)
+		out = append(out, bytes.TrimRight(t.line, " ")...)
+		out = append(out, '\n')
+		t.line = t.line[:0]
+		p = p[i+1:]
+	}
+	if len(out) > 0 {
+		if _, err := t.w.Write(out); err != nil {
+			return 0, err
+		}
+	}
+	return n, nil
+}
 
 func (r *Report) writeHeader(w io.Writer) {
 	title := "phigrid solve report"
@@ -178,7 +212,7 @@ func (r *Report) writeMatrix(w io.Writer) {
 		dec = max(0, 4-int(math.Floor(math.Log10(big/scale))))
 	}
 	fmt.Fprintf(w, "\nCapacitance matrix (%s%s)\n", prefix, r.Units.Capacitance)
-	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
+	tw := tabwriter.NewWriter(&trimWriter{w: w}, 0, 0, 2, ' ', tabwriter.AlignRight)
 	fmt.Fprintf(tw, "\t")
 	for _, c := range r.Conductors {
 		fmt.Fprintf(tw, "%s\t", c.Name)
@@ -209,16 +243,42 @@ func (r *Report) writeRegions(w io.Writer) {
 }
 
 func (r *Report) writeEstimates(w io.Writer) {
-	if len(r.Estimates) == 0 {
+	c := r.Convergence
+	if c == nil || len(c.Estimates) == 0 {
 		return
 	}
-	fmt.Fprintf(w, "\nError estimates (grid-convergence study)\n")
+	grids := make([]string, len(c.Levels))
+	for i, l := range c.Levels {
+		grids[i] = strconv.Itoa(l.Nodes)
+	}
+	fmt.Fprintf(w, "\nError estimates (grid-convergence study on %s nodes)\n", strings.Join(grids, ", "))
 	tw := table(w)
-	fmt.Fprintf(tw, "  quantity\tvalue\torder\textrapolated\terror band\n")
-	for _, e := range r.Estimates {
-		fmt.Fprintf(tw, "  %s\t%s\t%.2f\t%s\t± %s\n", e.Quantity, eng(e.Value, e.Unit), e.Order, eng(e.Extrapolated, e.Unit), eng(e.Band, e.Unit))
+	fmt.Fprintf(tw, "  quantity\tfinest grid\torder\textrapolated\terror band\tnote\n")
+	shown := false
+	for _, e := range c.Estimates {
+		order := "–"
+		if e.Observed != nil {
+			order = strconv.FormatFloat(*e.Observed, 'f', 2, 64)
+		}
+		value, extra, band := eng(e.Value, e.Unit), eng(e.Extrapolated, e.Unit), eng(e.Band, e.Unit)
+		if e.Unit == "V/m" {
+			value, extra, band = fieldStrength(e.Value), fieldStrength(e.Extrapolated), fieldStrength(e.Band)
+			shown = true
+		}
+		rel := ""
+		if e.Value != 0 {
+			rel = fmt.Sprintf(" (%.2g %%)", 100*e.Band/math.Abs(e.Value))
+		}
+		note := ""
+		if e.Note != "" {
+			note = "(" + e.Note + ")"
+		}
+		fmt.Fprintf(tw, "  %s\t%s\t%s\t%s\t± %s%s\t%s\n", e.Quantity, value, order, extra, band, rel, note)
 	}
 	tw.Flush()
+	if shown {
+		writeCaution(w)
+	}
 }
 
 func (r *Report) writeProbes(w io.Writer) {
