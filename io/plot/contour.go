@@ -11,6 +11,11 @@ import (
 // is taken at the cut point, not at the conductor node, so equipotentials
 // next to curved electrodes follow the surface rather than the grid's
 // staircase. Saddle cells are resolved by the mean of their corners.
+//
+// A level equal to the potential of a conductor or a prescribed side would
+// also trace that electrode's own surface; pieces of line running along
+// such a surface (both ends on a fixed node at the level) are left out,
+// and the line is split there.
 func contourLines(g *grid.Grid, m *bc.Map, phi []float64, level float64) [][]pt {
 	nx, ny := g.Nx(), g.Ny()
 	xs, ys := g.X(), g.Y()
@@ -44,15 +49,20 @@ func contourLines(g *grid.Grid, m *bc.Map, phi []float64, level float64) [][]pt 
 
 	// Edge ids: 2n for the X-link from node n, 2n+1 for its Y-link.
 	points := map[int]pt{}
+	onFixed := map[int]bool{} // crossings that sit on a fixed node at the level
+	fixedAt := func(n int) bool { return m.Kind[n] != bc.Free && phi[n] == level }
 	edgePoint := func(id int) {
 		if _, ok := points[id]; ok {
 			return
 		}
 		n := id / 2
-		if id%2 == 0 {
-			points[id] = crossing(n, n+1, true)
-		} else {
-			points[id] = crossing(n, n+nx, false)
+		b := n + 1
+		if id%2 == 1 {
+			b = n + nx
+		}
+		points[id] = crossing(n, b, id%2 == 0)
+		if fixedAt(n) || fixedAt(b) {
+			onFixed[id] = true
 		}
 	}
 	type seg struct{ a, b int }
@@ -94,11 +104,29 @@ func contourLines(g *grid.Grid, m *bc.Map, phi []float64, level float64) [][]pt 
 			}
 		}
 	}
-	return joinSegments(len(segs), func(i int) (int, int) { return segs[i].a, segs[i].b }, points)
+	chains := joinSegments(len(segs), func(i int) (int, int) { return segs[i].a, segs[i].b })
+	var out [][]pt
+	for _, ids := range chains {
+		var cur []pt
+		for k, id := range ids {
+			if k > 0 && onFixed[id] && onFixed[ids[k-1]] {
+				// This piece runs along a fixed surface: break the line.
+				if len(cur) >= 2 {
+					out = append(out, cur)
+				}
+				cur = nil
+			}
+			cur = append(cur, points[id])
+		}
+		if len(cur) >= 2 {
+			out = append(out, cur)
+		}
+	}
+	return out
 }
 
-// joinSegments chains segments that share end ids into polylines.
-func joinSegments(n int, ends func(int) (int, int), points map[int]pt) [][]pt {
+// joinSegments chains segments that share end ids into sequences of ids.
+func joinSegments(n int, ends func(int) (int, int)) [][]int {
 	at := make(map[int][]int, 2*n)
 	for i := range n {
 		a, b := ends(i)
@@ -121,7 +149,7 @@ func joinSegments(n int, ends func(int) (int, int), points map[int]pt) [][]pt {
 		}
 		return 0, false
 	}
-	var out [][]pt
+	var out [][]int
 	for i := range n {
 		if used[i] {
 			continue
@@ -148,13 +176,11 @@ func joinSegments(n int, ends func(int) (int, int), points map[int]pt) [][]pt {
 			id = other(s, id)
 			back = append(back, id)
 		}
-		line := make([]pt, 0, len(back)+len(fwd))
+		line := make([]int, 0, len(back)+len(fwd))
 		for k := len(back) - 1; k >= 0; k-- {
-			line = append(line, points[back[k]])
+			line = append(line, back[k])
 		}
-		for _, id := range fwd {
-			line = append(line, points[id])
-		}
+		line = append(line, fwd...)
 		out = append(out, line)
 	}
 	return out

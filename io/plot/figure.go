@@ -5,6 +5,8 @@ import (
 	"image/color"
 	"math"
 	"strings"
+	"unicode"
+	"unicode/utf8"
 
 	xfont "golang.org/x/image/font"
 	gplot "gonum.org/v1/plot"
@@ -145,6 +147,8 @@ func newFigure(sol *field.Solution, p *bc.Problem, o Options, format string) (*f
 	if o.Title != "" {
 		f.subtitle = f.title + " — " + f.subtitle
 		f.title = o.Title
+	} else if r, n := utf8.DecodeRuneInString(f.subtitle); n > 0 {
+		f.subtitle = string(unicode.ToUpper(r)) + f.subtitle[n:]
 	}
 	f.h = float64(o.Height)
 	if f.h == 0 {
@@ -188,7 +192,8 @@ type layout struct {
 	panel vg.Rectangle
 	gp    *gplot.Plot
 	notes [][]string // wrapped footnotes
-	top   vg.Length  // baseline of the subtitle
+	sub   []string    // wrapped subtitle
+	subY  []vg.Length // baselines of its lines
 	// availW and availH are the largest data area the space allows
 	// before the aspect ratio is imposed; aspect is the ratio imposed.
 	availW, availH vg.Length
@@ -270,8 +275,25 @@ func (f *figure) arrange(c draw.Canvas) *layout {
 	top := c.Max.Y - m
 	top -= f.textStyle(1.3, true, ink).Height("Ag")
 	top -= 0.2 * fs
-	top -= f.textStyle(1, false, softInk).Height("Ag")
-	ly.top = top
+	d := f.p.Domain
+	aspect := (d.Y1 - d.Y0) / (d.X1 - d.X0)
+	if aspect > 6 || aspect < 1.0/6 {
+		f.distorted = true
+		aspect = math.Min(6, math.Max(1.0/6, aspect))
+	}
+	sub := f.subtitle
+	if f.distorted {
+		sub += " (axes not to the same scale)"
+	}
+	ss := f.textStyle(1, false, softInk)
+	for i, line := range wrap(sub, ss, c.Max.X-c.Min.X-2*m) {
+		if i > 0 {
+			top -= 0.15 * fs
+		}
+		top -= ss.Height("Ag")
+		ly.sub = append(ly.sub, line)
+		ly.subY = append(ly.subY, top)
+	}
 	top -= 0.9 * fs
 	bottom := c.Min.Y + m
 	ns := f.textStyle(0.75, false, softInk)
@@ -289,12 +311,6 @@ func (f *figure) arrange(c draw.Canvas) *layout {
 	var xlen, ylen vg.Length = area.Size().X, area.Size().Y
 	gp := f.newAxes(&xlen, &ylen)
 	ly.gp = gp
-	d := f.p.Domain
-	aspect := (d.Y1 - d.Y0) / (d.X1 - d.X0)
-	if aspect > 6 || aspect < 1.0/6 {
-		f.distorted = true
-		aspect = math.Min(6, math.Max(1.0/6, aspect))
-	}
 	pc := draw.Canvas{Canvas: c.Canvas, Rectangle: area}
 	for range 4 {
 		dc := gp.DataCanvas(pc)
@@ -330,7 +346,7 @@ func (f *figure) autoHeight() float64 {
 	// Make the height available to the data area what the full width
 	// needs.
 	h := f.h + float64(ly.availW)*ly.aspect - float64(ly.availH)
-	return math.Round(math.Min(1.6*f.w, math.Max(0.45*f.w, h)))
+	return math.Round(math.Min(1.6*f.w, math.Max(0.3*f.w, h)))
 }
 
 // render draws the whole picture.
@@ -353,11 +369,9 @@ func (f *figure) render(c draw.Canvas) (err error) {
 	ts.YAlign = draw.YTop
 	c.FillText(ts, vg.Point{X: c.Min.X + m, Y: c.Max.Y - m}, f.title)
 	ss := f.textStyle(1, false, softInk)
-	sub := f.subtitle
-	if f.distorted {
-		sub += " (axes not to the same scale)"
+	for i, line := range ly.sub {
+		c.FillText(ss, vg.Point{X: c.Min.X + m, Y: ly.subY[i]}, line)
 	}
-	c.FillText(ss, vg.Point{X: c.Min.X + m, Y: ly.top}, sub)
 
 	// Footnotes.
 	ns := f.textStyle(0.75, false, softInk)

@@ -21,32 +21,10 @@ func (f *figure) potentialRange() (lo, hi float64) {
 	return lo, hi
 }
 
-// equipotentials returns round levels inside the potential range, leaving
-// out the potentials of conductors and fixed sides, whose contour would
-// trace the electrode's own outline.
+// equipotentials returns round levels strictly inside the potential
+// range.
 func (f *figure) equipotentials(lo, hi float64) ([]float64, float64) {
-	levels, step := chooseLevels(lo, hi, f.o.Levels)
-	tol := 1e-6 * (hi - lo)
-	var fixed []float64
-	fixed = append(fixed, f.sol.V...)
-	for _, s := range f.p.Sides {
-		if s.Kind == bc.Fixed && s.Conductor == "" && s.Func == nil {
-			fixed = append(fixed, s.Potential)
-		}
-	}
-	out := levels[:0]
-	for _, l := range levels {
-		keep := true
-		for _, v := range fixed {
-			if math.Abs(l-v) <= tol {
-				keep = false
-			}
-		}
-		if keep {
-			out = append(out, l)
-		}
-	}
-	return out, step
+	return chooseLevels(lo, hi, f.o.Levels)
 }
 
 func (f *figure) preparePotential() {

@@ -64,12 +64,17 @@ func (f *figure) outlineLayer() layer {
 				v.c.StrokeLines(draw.LineStyle{Color: metalEdge, Width: 1.6}, []vg.Point{v.pt(pt{st.X0, st.Y0}), v.pt(pt{st.X1, st.Y1})})
 			}
 		}
-		// Conductor sides.
+		// Conductor sides as heavy bars, sides held at a prescribed
+		// potential as lighter ones.
 		c := v.c
 		const bar = 3
 		for s, side := range f.p.Sides {
-			if side.Kind != bc.Fixed || side.Conductor == "" {
+			if side.Kind != bc.Fixed {
 				continue
+			}
+			col := metalEdge
+			if side.Conductor == "" {
+				col = softInk
 			}
 			var a, b vg.Point
 			switch s {
@@ -82,7 +87,7 @@ func (f *figure) outlineLayer() layer {
 			case bc.Top:
 				a, b = vg.Point{X: c.Min.X, Y: c.Max.Y - bar/2}, vg.Point{X: c.Max.X, Y: c.Max.Y - bar/2}
 			}
-			c.StrokeLine2(draw.LineStyle{Color: metalEdge, Width: bar}, a.X, a.Y, b.X, b.Y)
+			c.StrokeLine2(draw.LineStyle{Color: col, Width: bar, Dashes: dashesFor(side.Conductor == "")}, a.X, a.Y, b.X, b.Y)
 		}
 		// Point and ring charges.
 		for _, q := range f.p.Charges {
@@ -111,4 +116,13 @@ func contourStyle(t float64) color.NRGBA {
 		return color.NRGBA{R: 0x10, G: 0x10, B: 0x14, A: 0xd8}
 	}
 	return color.NRGBA{R: 0xff, G: 0xff, B: 0xff, A: 0xe0}
+}
+
+// dashesFor returns the dash pattern of a fixed side: solid for a
+// conductor, dashed for a prescribed potential.
+func dashesFor(prescribed bool) []vg.Length {
+	if prescribed {
+		return []vg.Length{6, 3}
+	}
+	return nil
 }

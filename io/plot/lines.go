@@ -477,6 +477,9 @@ func (f *figure) prepareLines() {
 	elems := tr.surface(f.segment())
 	seeds, _ := tr.seeds(elems, f.o.Lines)
 	lines := tr.lines(seeds)
+	if len(lines) == 0 {
+		f.notes = append(f.notes, "No conductor surface carries charge, so no field lines start.")
+	}
 	f.layers = append(f.layers,
 		func(v *view) {
 			v.c.SetColor(white)

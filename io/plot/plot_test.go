@@ -15,6 +15,7 @@ import (
 
 	"github.com/phigrid/phigrid/bc"
 	"github.com/phigrid/phigrid/field"
+	"github.com/phigrid/phigrid/grid"
 )
 
 // pictureCases are the pictures every solution is drawn as.
@@ -126,6 +127,15 @@ func TestPictures(t *testing.T) {
 				}
 				save(t, fmt.Sprintf("%s-%s.svg", sc.name, pc.name), buf.Bytes())
 				checkSVG(t, buf.Bytes())
+				xn, yn := "x", "y"
+				if sc.p.Metric == grid.Axisymmetric {
+					xn, yn = "r", "z"
+				}
+				for _, axis := range []string{xn, yn} {
+					if !strings.Contains(buf.String(), ">"+axis+" (mm)<") {
+						t.Errorf("SVG lacks the axis label %q", axis+" (mm)")
+					}
+				}
 				if !strings.Contains(buf.String(), "'Liberation Sans',Arial") {
 					t.Error("SVG text names no fallback font")
 				}
