@@ -191,7 +191,7 @@ type layout struct {
 	data  draw.Canvas // the data area inside it
 	panel vg.Rectangle
 	gp    *gplot.Plot
-	notes [][]string // wrapped footnotes
+	notes [][]string  // wrapped footnotes
 	sub   []string    // wrapped subtitle
 	subY  []vg.Length // baselines of its lines
 	// availW and availH are the largest data area the space allows
