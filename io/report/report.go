@@ -116,8 +116,9 @@ type Solver struct {
 	Iterations int `json:"iterations"`
 	// Residual is the largest final relative residual of any solve.
 	Residual float64 `json:"residual"`
-	// Status is "converged" when every solve converged and otherwise the
-	// status of the first that did not.
+	// Status is "converged" when every solve converged, otherwise the
+	// status of the first that did not, and empty when the solution
+	// carries no solve statistics (a solution rebuilt from an archive).
 	Status string `json:"status"`
 	// SetupSeconds and SolveSeconds are the total set-up and iteration
 	// times.
@@ -320,6 +321,7 @@ func Build(sol *field.Solution, c [][]float64, opts BuildOptions) (*Report, erro
 		Energy:  sol.Energy(),
 	}
 	q := sol.Charges()
+	r.Conductors = []Conductor{}
 	for k, cd := range m.Conductors {
 		rc := Conductor{Name: cd.Name, Potential: sol.V[k], Floating: cd.Floating, Charge: q[k]}
 		if c != nil {
@@ -411,7 +413,7 @@ func gridSummary(sol *field.Solution) Grid {
 }
 
 func solverSummary(rs []*solve.Result) Solver {
-	s := Solver{Status: solve.Converged.String()}
+	var s Solver
 	var setup, elapsed time.Duration
 	bad := false
 	for _, r := range rs {
@@ -430,6 +432,9 @@ func solverSummary(rs []*solve.Result) Solver {
 			s.Status = r.Status.String()
 			bad = true
 		}
+	}
+	if s.Solves > 0 && !bad {
+		s.Status = solve.Converged.String()
 	}
 	s.SetupSeconds = setup.Seconds()
 	s.SolveSeconds = elapsed.Seconds()

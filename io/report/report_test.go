@@ -514,6 +514,27 @@ func TestConvergenceStudy(t *testing.T) {
 	}
 }
 
+// TestNoStatistics builds a report from a solution without solve
+// statistics, as one rebuilt from an archive is.
+func TestNoStatistics(t *testing.T) {
+	sol, c := solveCase(t, platesProblem(), 11, 11)
+	sol.Results = nil
+	r, err := Build(sol, c, BuildOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r.Solver != (Solver{}) {
+		t.Errorf("solver summary %+v, want zero", r.Solver)
+	}
+	var buf bytes.Buffer
+	if err := r.WriteText(&buf); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(buf.String(), "Solver:   no statistics") || strings.Contains(buf.String(), "Time:") {
+		t.Errorf("text without statistics:\n%s", buf.String())
+	}
+}
+
 func TestCSV(t *testing.T) {
 	r := goldens[0].build(t)
 	for _, c := range []struct {

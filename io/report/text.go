@@ -112,6 +112,11 @@ func (r *Report) writeHeader(w io.Writer) {
 	}
 	fmt.Fprintln(tw)
 	s := r.Solver
+	if s.Solves == 0 {
+		fmt.Fprintf(tw, "Solver:\tno statistics (the solution was not solved in this run)\n")
+		tw.Flush()
+		return
+	}
 	solves := "solves"
 	if s.Solves == 1 {
 		solves = "solve"
