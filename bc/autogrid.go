@@ -15,13 +15,64 @@ type Mesh struct {
 	// It must be positive.
 	Cell float64
 	// Refine divides Cell near conductor and interface edges: the cell
-	// size there is Cell/Refine. Zero means 4; 1 gives a uniform grid.
+	// size there is Cell/Refine. Zero means 4; 1 gives a uniform grid
+	// apart from the rules below.
 	Refine float64
-	// Ratio bounds the growth of neighbouring cells. Zero means 1.2.
+	// Ratio bounds the growth of neighbouring cells. Zero means 1.2;
+	// values must lie in [1, 3], and 1 keeps every cell at the finest size
+	// any rule asks for.
 	Ratio float64
 	// MaxNodes caps the node count; AutoGrid fails above it. Zero means
 	// 4 097² nodes.
 	MaxNodes int
+	// Gap is the smallest number of cells across a thin gap: between two
+	// shapes facing each other, between a shape and a fixed side (across
+	// twice the distance to a zero-flux side, the gap to the mirror
+	// image), and across a dielectric or charge layer. Zero means 4.
+	Gap int
+	// Corner divides the fine size once more at conductor corners
+	// (rectangle corners, polygon vertices, strip ends), where the field is
+	// singular. Zero means 2; 1 turns it off.
+	Corner float64
+}
+
+// withDefaults returns m with its zero fields replaced by the defaults,
+// or an error for invalid values.
+func (m Mesh) withDefaults() (Mesh, error) {
+	if !(m.Cell > 0) || math.IsInf(m.Cell, 0) {
+		return m, fmt.Errorf("%w: the target cell size must be positive, got %g", ErrProblem, m.Cell)
+	}
+	if m.Refine == 0 {
+		m.Refine = 4
+	}
+	if !(m.Refine >= 1) || math.IsInf(m.Refine, 0) {
+		return m, fmt.Errorf("%w: the refinement factor must be ≥ 1, got %g", ErrProblem, m.Refine)
+	}
+	if m.Ratio == 0 {
+		m.Ratio = 1.2
+	}
+	if !(m.Ratio >= 1 && m.Ratio <= 3) {
+		return m, fmt.Errorf("%w: the growth ratio must lie in [1, 3], got %g", ErrProblem, m.Ratio)
+	}
+	if m.MaxNodes == 0 {
+		m.MaxNodes = DefaultMaxNodes
+	}
+	if m.MaxNodes < 4 {
+		return m, fmt.Errorf("%w: the node cap must be at least 4, got %d", ErrProblem, m.MaxNodes)
+	}
+	if m.Gap == 0 {
+		m.Gap = 4
+	}
+	if m.Gap < 1 {
+		return m, fmt.Errorf("%w: the cells across a gap must be ≥ 1, got %d", ErrProblem, m.Gap)
+	}
+	if m.Corner == 0 {
+		m.Corner = 2
+	}
+	if !(m.Corner >= 1) || math.IsInf(m.Corner, 0) {
+		return m, fmt.Errorf("%w: the corner refinement must be ≥ 1, got %g", ErrProblem, m.Corner)
+	}
+	return m, nil
 }
 
 // DefaultMaxNodes is the node cap used when Mesh.MaxNodes is zero.
@@ -78,53 +129,64 @@ func (p *Problem) Features() (xs, ys []float64) {
 	return clip(xs, d.X0, d.X1), clip(ys, d.Y0, d.Y1)
 }
 
-// AutoGrid builds a graded grid for p following m: cells of Cell/Refine at
-// geometry features, growing by Ratio to Cell elsewhere.
+// AutoGrid builds a graded grid for p following m. Along each axis the
+// cell size is the smallest that any of these rules asks for, and grows by
+// at most Ratio from one cell to the next away from where a rule applies:
+//
+//   - Cell everywhere (the target size);
+//   - Cell/Refine at geometry features: the domain's edges, every shape's
+//     bounding box, circle extremes and polygon vertices, which are also
+//     made grid lines so that straight edges and layer boundaries along
+//     the axes fall on the grid;
+//   - Cell/(Refine·Corner) at conductor corners and strip ends;
+//   - over the extent of a circle or annulus, min(R/4, max(Cell/Refine,
+//     R/16)), so that round surfaces, where peak fields sit, are resolved
+//     all round and not only at their extremes;
+//   - Gap cells across every thin gap: between two shapes facing each
+//     other (the exact narrowest gap for circles and the bores of
+//     annuli, the bounding boxes otherwise), between a shape and a fixed
+//     side (twice the distance to a zero-flux side), and across a
+//     dielectric or charge layer.
+//
+// Beyond the geometry's bounding box (plus two cells), toward an Open side,
+// the Cell cap is lifted: the cells keep growing by Ratio, which makes a
+// far region out to a distant open boundary cheap (see ExtendOpen).
+// Features closer than a quarter of the local cell size are merged.
 func AutoGrid(p *Problem, m Mesh) (*grid.Grid, error) {
-	if !(m.Cell > 0) || math.IsInf(m.Cell, 0) {
-		return nil, fmt.Errorf("%w: the target cell size must be positive, got %g", ErrProblem, m.Cell)
-	}
-	if m.Refine == 0 {
-		m.Refine = 4
-	}
-	if m.Refine < 1 {
-		return nil, fmt.Errorf("%w: the refinement factor must be ≥ 1, got %g", ErrProblem, m.Refine)
-	}
-	if m.MaxNodes == 0 {
-		m.MaxNodes = DefaultMaxNodes
-	}
-	d := p.Domain
-	fx, fy := p.Features()
-	est := EstimateNodes(p, m)
-	if est > float64(m.MaxNodes) {
-		return nil, fmt.Errorf("%w: about %.3g nodes needed but the cap is %d; raise the cap or coarsen the cell size", ErrTooLarge, est, m.MaxNodes)
-	}
-	gr := grid.Grading{Fine: m.Cell / m.Refine, Max: m.Cell, Ratio: m.Ratio}
-	gr.Focus = fx
-	x, err := grid.Graded(d.X0, d.X1, gr)
+	m, err := m.withDefaults()
 	if err != nil {
-		return nil, fmt.Errorf("%w: x axis: %w", ErrProblem, err)
+		return nil, err
 	}
-	gr.Focus = fy
-	y, err := grid.Graded(d.Y0, d.Y1, gr)
-	if err != nil {
-		return nil, fmt.Errorf("%w: y axis: %w", ErrProblem, err)
+	px, py := plan(p, m)
+	limit := m.MaxNodes
+	cx := px.cells(limit)
+	cy := py.cells(limit)
+	if n := float64(cx+1) * float64(cy+1); n > float64(limit) {
+		return nil, fmt.Errorf("%w: about %.3g nodes needed but the cap is %d; raise the cap or coarsen the cell size", ErrTooLarge, n, limit)
 	}
+	x, y := px.nodes(), py.nodes()
 	if n := len(x) * len(y); n > m.MaxNodes {
 		return nil, fmt.Errorf("%w: %d × %d = %d nodes exceed the cap of %d; raise the cap or coarsen the cell size", ErrTooLarge, len(x), len(y), n, m.MaxNodes)
 	}
-	return grid.New(x, y, p.Metric)
+	g, err := grid.New(x, y, p.Metric)
+	if err != nil {
+		return nil, fmt.Errorf("%w: %w", ErrProblem, err)
+	}
+	return g, nil
 }
 
-// EstimateNodes returns a quick upper estimate of the node count AutoGrid
-// would produce, without building the grid.
+// EstimateNodes returns the node count AutoGrid would produce (an upper
+// estimate when it exceeds the cap), without building the grid. It
+// returns +Inf for an invalid mesh.
 func EstimateNodes(p *Problem, m Mesh) float64 {
-	if m.Refine == 0 {
-		m.Refine = 4
+	m, err := m.withDefaults()
+	if err != nil {
+		return math.Inf(1)
 	}
-	d := p.Domain
-	fx, fy := p.Features()
-	nx := (d.X1-d.X0)/m.Cell + 1 + float64(len(fx))*math.Log(m.Refine)/math.Log(1.2)
-	ny := (d.Y1-d.Y0)/m.Cell + 1 + float64(len(fy))*math.Log(m.Refine)/math.Log(1.2)
-	return nx * ny
+	px, py := plan(p, m)
+	// Count each axis up to the cap: beyond it the product is over the
+	// cap anyway.
+	cx := px.cells(m.MaxNodes)
+	cy := py.cells(m.MaxNodes)
+	return float64(cx+1) * float64(cy+1)
 }

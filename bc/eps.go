@@ -16,24 +16,30 @@ package bc
 // interface and gives first-order errors in capacitance and interface
 // fields.
 
-import "math"
+import (
+	"math"
+
+	"github.com/phigrid/phigrid/grid"
+)
 
 // crossSamples is the number of points sampled along a line before the
 // material changes on it are located by bisection.
 const crossSamples = 8
 
-// lineHarmonic returns the harmonic mean of ε along the segment from
-// (x0, y0) to (x1, y1), ignoring parts inside a conductor, and the fraction
-// of the segment outside conductors. Changes of material are located to
-// round-off by bisection between samples, assuming at most one change
-// between neighbouring samples.
-func (r *rasterizer) lineHarmonic(x0, y0, x1, y1 float64) (eps, free float64) {
+// lineSeg is a piece of a sampled line with one material state; t0 and
+// t1 are fractions of the line.
+type lineSeg struct {
+	t0, t1 float64
+	s      pointState
+}
+
+// lineSegments splits the segment from (x0, y0) to (x1, y1) into pieces of
+// one material. Changes of material are located to round-off by bisection
+// between samples, assuming at most one change between neighbouring
+// samples.
+func (r *rasterizer) lineSegments(x0, y0, x1, y1 float64) []lineSeg {
 	at := func(t float64) pointState { return r.state(x0+t*(x1-x0), y0+t*(y1-y0)) }
-	type seg struct {
-		t0, t1 float64
-		s      pointState
-	}
-	var segs []seg
+	var segs []lineSeg
 	// Samples at both ends (just inside the segment) and evenly between.
 	tAt := func(k int) float64 {
 		switch k {
@@ -60,14 +66,20 @@ func (r *rasterizer) lineHarmonic(x0, y0, x1, y1 float64) (eps, free float64) {
 				}
 			}
 			cut := 0.5 * (lo + hi)
-			segs = append(segs, seg{start, cut, prev})
+			segs = append(segs, lineSeg{start, cut, prev})
 			start, prev = cut, s
 		}
 		prevT = t
 	}
-	segs = append(segs, seg{start, 1, prev})
+	return append(segs, lineSeg{start, 1, prev})
+}
+
+// lineHarmonic returns the harmonic mean of ε along the segment from
+// (x0, y0) to (x1, y1), ignoring parts inside a conductor, and the fraction
+// of the segment outside conductors.
+func (r *rasterizer) lineHarmonic(x0, y0, x1, y1 float64) (eps, free float64) {
 	var inv, length float64
-	for _, sg := range segs {
+	for _, sg := range r.lineSegments(x0, y0, x1, y1) {
 		if sg.s.cond >= 0 {
 			continue
 		}
@@ -79,6 +91,32 @@ func (r *rasterizer) lineHarmonic(x0, y0, x1, y1 float64) (eps, free float64) {
 		return 0, 0
 	}
 	return length / inv, length
+}
+
+// cellRho returns the mean charge density of the cell [x0, x1] × [y0, y1]
+// weighted by volume (by 2πr in an axisymmetric problem), from lines rows
+// along X with their material changes located exactly.
+func (r *rasterizer) cellRho(x0, y0, x1, y1 float64, lines int) float64 {
+	radial := r.p.Metric == grid.Axisymmetric
+	weight := func(a, b float64) float64 {
+		if radial {
+			return b*b - a*a
+		}
+		return b - a
+	}
+	var q, v float64
+	for k := 0; k < lines; k++ {
+		y := y0 + (float64(k)+0.5)/float64(lines)*(y1-y0)
+		for _, sg := range r.lineSegments(x0, y, x1, y) {
+			w := weight(x0+sg.t0*(x1-x0), x0+sg.t1*(x1-x0))
+			q += r.rho(sg.s) * w
+			v += w
+		}
+	}
+	if v == 0 {
+		return 0
+	}
+	return q / v
 }
 
 // tube returns the directional permittivity of the rectangle [x0, x1] ×

@@ -48,8 +48,10 @@ type Map struct {
 	Value []float64
 	// Eps is the relative permittivity of every cell.
 	Eps []float64
-	// Rho is the free-charge density of every cell in C/m³; nil when the
-	// problem has no charge region.
+	// Rho is the free-charge density of every cell in C/m³, the mean over
+	// the cell by volume (weighted by 2πr in an axisymmetric problem), with
+	// the boundaries of charge regions located exactly along 2·Samples
+	// lines; nil when the problem has no charge region.
 	Rho []float64
 	// Point is the concentrated charge deposited on every node (C/m planar,
 	// C axisymmetric); nil when the problem has no point charge.
@@ -566,6 +568,9 @@ func (r *rasterizer) cells(m *Map, states []pointState, samples int) {
 			}
 			if hasRho {
 				m.Rho[c] = rsum * inv * inv
+				if rsum != 0 || r.rho(s0) != 0 || r.rho(s1) != 0 || r.rho(s2) != 0 || r.rho(s3) != 0 {
+					m.Rho[c] = r.cellRho(xs[i], ys[j], xs[i+1], ys[j+1], 2*samples)
+				}
 			}
 		}
 	}

@@ -471,12 +471,13 @@ func solve3(m [3][4]float64) ([3]float64, bool) {
 // Materials that cover no cell are left out.
 //
 // The field is evaluated at the centres of cells whose four corners are
-// free or prescribed nodes (the gradient of the bilinear potential, second
-// order at the centre) and at the conductor surface points of
-// SurfaceField, which are attributed to the material just outside the
-// surface. Next to a dielectric interface the cell-centre values lie up to
-// half a cell from the interface, so a field that peaks on an interface is
-// underestimated by O(h).
+// free or prescribed nodes and whose neighbours hold the same material
+// (the gradient of the bilinear potential, second order at the centre),
+// and at the conductor surface points of SurfaceField, which are
+// attributed to the material just outside the surface. Cells next to a
+// dielectric interface are left out, since their field straddles the jump;
+// the nearest values used lie one to two cells from the interface, so a
+// field that peaks on an interface is underestimated by O(h).
 func (sol *Solution) PeakRegionFields() []Peak {
 	m, g := sol.Map, sol.Grid
 	names, slot := sol.regionSlots()
@@ -488,6 +489,18 @@ func (sol *Solution) PeakRegionFields() []Peak {
 	ex, ey := sol.CellFieldTo(nil, nil)
 	nx, ny := g.Nx(), g.Ny()
 	xs, ys := g.X(), g.Y()
+	// pure reports whether cell (i, j) and its neighbours all hold
+	// material s, so that the cell's field does not straddle an interface.
+	pure := func(i, j, s int) bool {
+		for b := max(j-1, 0); b <= min(j+1, ny-2); b++ {
+			for a := max(i-1, 0); a <= min(i+1, nx-2); a++ {
+				if slot(g.CellIndex(a, b)) != s {
+					return false
+				}
+			}
+		}
+		return true
+	}
 	for j := 0; j+1 < ny; j++ {
 		for i := 0; i+1 < nx; i++ {
 			c := g.CellIndex(i, j)
@@ -498,6 +511,9 @@ func (sol *Solution) PeakRegionFields() []Peak {
 			}
 			s := slot(c)
 			seen[s] = true
+			if !pure(i, j, s) {
+				continue
+			}
 			if v := math.Hypot(ex[c], ey[c]); v > peaks[s].Value {
 				peaks[s].Value = v
 				peaks[s].X = 0.5 * (xs[i] + xs[i+1])

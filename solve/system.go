@@ -139,8 +139,12 @@ func (s *System) RHS(dst, v []float64, withCharge, withPrescribed bool) []float6
 // crosses two half-cells, each contributing its own ε_r times its share of
 // the face. A link between a free node and a conductor node that the
 // conductor surface cuts at fraction θ uses the distance θ·h instead of h,
-// so its coupling is divided by θ; this keeps the system symmetric and makes
-// curved conductors second-order accurate.
+// so its coupling is divided by θ (in r–z its face moves to the middle of
+// the shortened link, r_free ± θh/2); this keeps the system symmetric and
+// makes curved conductors second-order accurate. Cells that a dielectric
+// interface crosses contribute their directional permittivities
+// (bc.Map.EpsX, EpsY) when the map has them, and Open sides add the
+// asymptotic condition's coupling to the far region (see Far).
 func Assemble(m *bc.Map) (*System, error) {
 	g := m.Grid
 	nx, ny := g.Nx(), g.Ny()
@@ -216,6 +220,8 @@ func Assemble(m *bc.Map) (*System, error) {
 			s.FixedLinks = append(s.FixedLinks, Link{int32(a), int32(b), gl})
 		}
 	}
+	radial := g.Metric() == grid.Axisymmetric
+	xs := g.X()
 	for j := 0; j < ny; j++ {
 		ylo, yhi := g.DualY(j)
 		for i := 0; i < nx; i++ {
@@ -230,6 +236,11 @@ func Assemble(m *bc.Map) (*System, error) {
 					w += epsX(j*cx+i, 0) * yhi
 				}
 				gl := Eps0 * g.LinkX(i) * w / m.CutX[a]
+				if radial && m.CutX[a] < 1 {
+					// The face of a cut radial link lies at the middle of
+					// its shortened part, from the free end.
+					gl *= cutRadius(m, a, a+1, xs[i], xs[i+1]) / (0.5 * (xs[i] + xs[i+1]))
+				}
 				s.LinkX[a] = gl
 				if !s.Fixed[a] && !s.Fixed[a+1] {
 					s.AX[a] = gl
@@ -318,6 +329,16 @@ func (s *System) fixedCoupling(a, b int, gl float64, addPart func(k int32)) {
 	}
 	s.Prescribed[a] += gl * m.Value[b]
 	s.PrescribedLinks = append(s.PrescribedLinks, Link{int32(a), int32(b), gl})
+}
+
+// cutRadius returns the radius of the middle of the free part of the cut
+// radial link between nodes a (at radius ra) and b (at rb).
+func cutRadius(m *bc.Map, a, b int, ra, rb float64) float64 {
+	theta := m.CutX[a]
+	if m.Kind[a] == bc.OnConductor {
+		ra, rb = rb, ra
+	}
+	return ra + 0.5*theta*(rb-ra)
 }
 
 // farCouplings returns the coupling of every free node on an Open side to
