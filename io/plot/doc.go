@@ -30,7 +30,13 @@
 //     carries an arrowhead pointing along E. In an axisymmetric problem
 //     the shares are of charge per length in the r–z plane, so the
 //     spacing shows σ at the surface; away from it, lines in r–z do not
-//     keep a density proportional to |E|.
+//     keep a density proportional to |E|. Lines start on conductors
+//     only: flux that ends on free charge shows as lines ending inside
+//     the charge, and flux between charges alone is not drawn.
+//
+// Equipotentials fall on round values (1, 2, 2.5 or 5 × 10ᵏ) strictly
+// between the lowest and highest potential; a level equal to an
+// electrode's potential is drawn only where it leaves the electrode.
 //
 // Every picture draws the conductors filled in a neutral grey with a dark
 // outline, dielectric interfaces as dashed lines and charge regions as

@@ -111,3 +111,20 @@ func TestSave(t *testing.T) {
 		t.Errorf("directory holds %v, want only coax.svg (no temporary or partial files)", names)
 	}
 }
+
+// TestCoarse draws every picture of a 3 × 3-node problem: nothing to
+// label and almost no field lines, but a valid picture every time.
+func TestCoarse(t *testing.T) {
+	p := plates(1e-3, 1e-3, 10)
+	sol := mustSolve(t, p, mustGrid(t, 0, 1e-3, 3, 0, 1e-3, 3, 0))
+	for _, pc := range pictureCases {
+		var buf bytes.Buffer
+		if err := Draw(&buf, "png", sol, p, pc.o); err != nil {
+			t.Errorf("%s: %v", pc.name, err)
+			continue
+		}
+		if _, err := png.Decode(&buf); err != nil {
+			t.Errorf("%s: %v", pc.name, err)
+		}
+	}
+}
