@@ -268,6 +268,10 @@ type BuildOptions struct {
 	// Probes and Cuts are the points and lines to sample, in metres.
 	Probes []Point
 	Cuts   []Line
+	// Background names the material where no region sets a permittivity
+	// (the model's domain material, such as "air"), for the table of peak
+	// fields by material. Empty means "background".
+	Background string
 	// Convergence is a grid-convergence study of the problem (from
 	// field.Converge or field.ConvergeGrids), whose estimates the report
 	// lists; nil means none was run.
@@ -332,7 +336,7 @@ func Build(sol *field.Solution, c [][]float64, opts BuildOptions) (*Report, erro
 		}
 		r.Conductors = append(r.Conductors, rc)
 	}
-	r.Regions = b.regionPeaks()
+	r.Regions = b.regionPeaks(opts.Background)
 	r.Convergence = convergence(opts.Convergence)
 	for n, p := range opts.Probes {
 		pr, err := b.probe(n, p)
@@ -480,9 +484,14 @@ func (b *builder) surfacePeak(k int) (Peak, bool) {
 // as equal when choosing where a peak lies.
 const tieTol = 1e-9
 
-func (b *builder) regionPeaks() []Peak {
+// regionPeaks returns the peak field per material, the background (which
+// field.PeakRegionFields puts first) named bg when bg is set.
+func (b *builder) regionPeaks(bg string) []Peak {
 	var out []Peak
-	for _, p := range b.sol.PeakRegionFields() {
+	for i, p := range b.sol.PeakRegionFields() {
+		if i == 0 && p.Where == "background" && bg != "" {
+			p.Where = bg
+		}
 		out = append(out, Peak{Where: p.Where, Field: p.Value, At: b.pos(p.X, p.Y)})
 	}
 	return out

@@ -152,9 +152,10 @@ var goldens = []golden{
 		build: func(t testing.TB) *Report {
 			sol, c := solveCase(t, discProblem(), 11, 11)
 			r, err := Build(sol, c, BuildOptions{
-				Title:  "Disc capacitor with an FR-4 layer",
-				Unit:   Unit{"mm", 1e-3},
-				Probes: []Point{{Name: "axis", X: 0, Y: 0.0008}},
+				Title:      "Disc capacitor with an FR-4 layer",
+				Background: "air",
+				Unit:       Unit{"mm", 1e-3},
+				Probes:     []Point{{Name: "axis", X: 0, Y: 0.0008}},
 			})
 			if err != nil {
 				t.Fatal(err)
@@ -450,6 +451,9 @@ func TestDiscClosedForm(t *testing.T) {
 	if r.Kind != (Kind{"axisymmetric", false}) || r.Units.Charge != "C" || r.Units.Capacitance != "F" || r.Units.Energy != "J" {
 		t.Errorf("axisymmetric kind and units wrong: %+v %+v", r.Kind, r.Units)
 	}
+	if r.Regions[0].Where != "air" || r.Regions[1].Where != "FR-4" {
+		t.Errorf("materials %q and %q, want the background named air, then FR-4", r.Regions[0].Where, r.Regions[1].Where)
+	}
 	if r.Conductors[0].PeakField.At != (Position{XM: 0, YM: 1e-3, X: 0, Y: 1}) {
 		t.Errorf("a uniform field's peak lies at the first surface point, (0, 1) mm; got %+v", r.Conductors[0].PeakField.At)
 	}
@@ -682,6 +686,10 @@ func TestFormatting(t *testing.T) {
 		if got := fieldStrength(c.v); got != c.want {
 			t.Errorf("fieldStrength(%g) = %q, want %q", c.v, got, c.want)
 		}
+	}
+	rep := &Report{Grid: Grid{MaxCell: 1e-4}}
+	if got := rep.at(Position{XM: -3.5e-20, X: -3.5e-17, YM: 3e-3, Y: 3}); got != "(0, 3)" {
+		t.Errorf("a coordinate within round-off of 0 prints as %s, want (0, 3)", got)
 	}
 	if got := wrap("aa bb cc dd", 5); !cmp.Equal(got, []string{"aa bb", "cc dd"}) {
 		t.Errorf("wrap = %q", got)

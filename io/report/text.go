@@ -135,8 +135,19 @@ func (r *Report) length(m float64) string {
 	return num(m / s)
 }
 
-// at formats a position in the model's unit.
-func (r *Report) at(p Position) string { return "(" + num(p.X) + ", " + num(p.Y) + ")" }
+// at formats a position in the model's unit. A coordinate within
+// round-off of zero (below 1e-9 of the largest cell) prints as 0.
+func (r *Report) at(p Position) string {
+	eps := 1e-9 * r.Grid.MaxCell
+	x, y := p.X, p.Y
+	if math.Abs(p.XM) < eps {
+		x = 0
+	}
+	if math.Abs(p.YM) < eps {
+		y = 0
+	}
+	return "(" + num(x) + ", " + num(y) + ")"
+}
 
 // axes is the heading of a position column.
 func (r *Report) axes() string {
