@@ -376,7 +376,7 @@ func (rd *reader) read() (*Archive, error) {
 			text(&b, typeJSON)
 			if err == nil {
 				var cs []conductorJSON
-				if e := strictJSON(b, &cs); e != nil {
+				if e := decodeJSON(b, &cs); e != nil {
 					err = s.fail(e, "decoding the conductors")
 				} else if int64(len(cs)) != k {
 					err = s.fail(nil, "lists %d conductors, but meta says %d", len(cs), k)
@@ -389,7 +389,7 @@ func (rd *reader) read() (*Archive, error) {
 			text(&b, typeJSON)
 			if err == nil {
 				var rs []regionJSON
-				if e := strictJSON(b, &rs); e != nil {
+				if e := decodeJSON(b, &rs); e != nil {
 					err = s.fail(e, "decoding the regions")
 				} else if mp.Regions, e = decodeRegions(rs); e != nil {
 					err = s.fail(e, "decoding the regions")
@@ -402,7 +402,7 @@ func (rd *reader) read() (*Archive, error) {
 			text(&b, typeJSON)
 			if err == nil {
 				var sj [4]sideJSON
-				if e := strictJSON(b, &sj); e != nil {
+				if e := decodeJSON(b, &sj); e != nil {
 					err = s.fail(e, "decoding the sides")
 				} else if mp.Sides, mapFn, e = decodeSides(sj); e != nil {
 					err = s.fail(e, "decoding the sides")
@@ -413,7 +413,7 @@ func (rd *reader) read() (*Archive, error) {
 			text(&b, typeJSON)
 			if err == nil {
 				var f farJSON
-				if e := strictJSON(b, &f); e != nil {
+				if e := decodeJSON(b, &f); e != nil {
 					err = s.fail(e, "decoding the far field")
 				} else {
 					mp.Far = bc.FarField{X: f.X, Y: f.Y, Decay: f.Decay}
@@ -514,7 +514,7 @@ func (rd *reader) readMeta() error {
 		return err
 	}
 	m := &rd.meta
-	if err := strictJSON(b, m); err != nil {
+	if err := decodeJSON(b, m); err != nil {
 		return s.fail(err, "decoding the metadata")
 	}
 	if _, err := parseMetric(m.Metric); err != nil {

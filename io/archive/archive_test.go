@@ -479,7 +479,8 @@ func TestReadErrors(t *testing.T) {
 		{"big grid", "the node cap is checked", rawArchive(t, 1, 0, edit("meta", func(s *rawSection) {
 			s.data = []byte(`{"metric":"planar","nx":100000,"ny":100000,"conductors":3,"snapped":0,"model_name":"","unit":{"name":"","scale":0}}`)
 		})), false, "outside 2 × 2"},
-		{"meta field", "meta is strict", rawArchive(t, 1, 0, edit("meta", func(s *rawSection) { s.data = []byte(`{"nx":5,"ny":4,"extra":1}`) })), false, "unknown field"},
+		{"meta metric", "meta names a known metric", rawArchive(t, 1, 0, edit("meta", func(s *rawSection) { s.data = []byte(`{"nx":5,"ny":4,"extra":1}`) })), false, `unknown metric ""`},
+		{"meta json", "meta is JSON", rawArchive(t, 1, 0, edit("meta", func(s *rawSection) { s.data = []byte(`{"nx":5,`) })), false, "decoding the metadata"},
 		{"cond range", "conductor indices are checked", rawArchive(t, 1, 0, edit("map.cond", func(s *rawSection) {
 			s.data = append([]byte(nil), s.data...)
 			binary.LittleEndian.PutUint32(s.data, 7)
@@ -515,8 +516,10 @@ func TestReadErrors(t *testing.T) {
 			}
 		})
 	}
-	// A later minor version with an unknown section still reads.
+	// A later minor version with an unknown section and an unknown meta
+	// field still reads.
 	extra := insert(1, rawSection{name: "future.thing", typ: typeFloat64, data: f64bytes(1, 2, 3)})
+	extra[0].data = append(bytes.TrimSuffix(extra[0].data, []byte("}")), []byte(`,"future":true}`)...)
 	a, err := Read(bytes.NewReader(rawArchive(t, 1, 7, extra)))
 	if err != nil {
 		t.Fatalf("a minor-version archive with an unknown section: %v", err)

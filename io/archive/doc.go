@@ -94,7 +94,9 @@
 //	v               float64   K      conductor potentials, V
 //
 // An optional section that is absent reads back as a nil slice; one that
-// is present with no elements reads back as an empty slice.
+// is present with no elements reads back as an empty slice. A reader
+// ignores object fields it does not know in JSON sections, so a later
+// minor version may add fields as well as sections.
 //
 // The "problem" section is a JSON object {"metric", "domain",
 // "background", "conductors", "regions", "charges", "sides", "far"}: the

@@ -279,10 +279,8 @@ func decodeShape(b json.RawMessage) (bc.Shape, error) {
 	if err := json.Unmarshal(b, &tag); err != nil {
 		return nil, fmt.Errorf("shape: %v", err)
 	}
-	strict := func(v any) error {
-		d := json.NewDecoder(bytes.NewReader(b))
-		d.DisallowUnknownFields()
-		if err := d.Decode(v); err != nil {
+	decode := func(v any) error {
+		if err := json.Unmarshal(b, v); err != nil {
 			return fmt.Errorf("%s shape: %v", tag.Type, err)
 		}
 		return nil
@@ -290,31 +288,31 @@ func decodeShape(b json.RawMessage) (bc.Shape, error) {
 	switch tag.Type {
 	case "rect":
 		var v rectJSON
-		if err := strict(&v); err != nil {
+		if err := decode(&v); err != nil {
 			return nil, err
 		}
 		return bc.Rect{X0: v.X0, Y0: v.Y0, X1: v.X1, Y1: v.Y1}, nil
 	case "circle":
 		var v circleJSON
-		if err := strict(&v); err != nil {
+		if err := decode(&v); err != nil {
 			return nil, err
 		}
 		return bc.Circle{X: v.X, Y: v.Y, R: v.R}, nil
 	case "annulus":
 		var v annulusJSON
-		if err := strict(&v); err != nil {
+		if err := decode(&v); err != nil {
 			return nil, err
 		}
 		return bc.Annulus{X: v.X, Y: v.Y, R0: v.R0, R1: v.R1}, nil
 	case "polygon":
 		var v polygonJSON
-		if err := strict(&v); err != nil {
+		if err := decode(&v); err != nil {
 			return nil, err
 		}
 		return bc.Polygon{X: v.X, Y: v.Y}, nil
 	case "strip":
 		var v stripJSON
-		if err := strict(&v); err != nil {
+		if err := decode(&v); err != nil {
 			return nil, err
 		}
 		return bc.Strip{X0: v.X0, Y0: v.Y0, X1: v.X1, Y1: v.Y1, Thickness: v.Thickness}, nil
@@ -326,7 +324,7 @@ func decodeShape(b json.RawMessage) (bc.Shape, error) {
 // function come back with fn[s] set, for the caller to restore.
 func decodeProblem(b []byte) (p *bc.Problem, fn [4]bool, err error) {
 	var pj problemJSON
-	if err := strictJSON(b, &pj); err != nil {
+	if err := decodeJSON(b, &pj); err != nil {
 		return nil, fn, err
 	}
 	m, err := parseMetric(pj.Metric)
@@ -361,11 +359,11 @@ func decodeProblem(b []byte) (p *bc.Problem, fn [4]bool, err error) {
 	return p, fn, nil
 }
 
-// strictJSON decodes one JSON value into v, rejecting unknown fields and
-// trailing data.
-func strictJSON(b []byte, v any) error {
+// decodeJSON decodes one JSON value into v and rejects trailing data.
+// Unknown object fields are ignored, so that a later minor version may add
+// fields.
+func decodeJSON(b []byte, v any) error {
 	d := json.NewDecoder(bytes.NewReader(b))
-	d.DisallowUnknownFields()
 	if err := d.Decode(v); err != nil {
 		return err
 	}
