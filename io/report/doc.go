@@ -12,6 +12,21 @@
 // from a grid-convergence study when one was run, and the probes and line
 // cuts the caller asked for.
 //
+// Build reads the peak fields from package field: the surface field of
+// every conductor (field.Solution.SurfaceField; call RefineSurface on the
+// solution first for surface fields that converge at second order) and
+// the peak field per material (field.Solution.PeakRegionFields). Where a
+// peak ties within round-off, as in a uniform field, the conductor peak
+// lies at the first tying surface point in grid order, so the position
+// does not change from run to run.
+//
+// # Renderings
+//
+// WriteText writes the report for a terminal, WriteJSON as a JSON document
+// that ReadJSON reads back exactly, and WriteConductorsCSV,
+// WriteProbesCSV and WriteCutsCSV write its tables for spreadsheets and
+// scripts (data only: one header row naming every column with its unit).
+//
 // # Units
 //
 // Numbers in a Report are SI: volts, V/m, metres. Charges, capacitances and
