@@ -198,22 +198,26 @@ func (l *coarseLevel) edgeBlocks(lo, hi int) {
 }
 
 // relaxRow relaxes both colours of row j, even columns first (odd first
-// when back is set).
+// when back is set). Row slices of the padded arrays (padded column i+1 is
+// node column i) let the compiler drop the bounds checks.
 func (l *coarseLevel) relaxRow(j int, back bool) {
 	st := l.st
-	x, b := l.opX, l.opB
-	c, w, s, sw, se := l.c, l.w, l.s, l.sw, l.se
-	o := (j+1)*st + 1
+	o := (j + 1) * st
+	x := l.opX
+	xs, xr, xn := x[o-st:o:o], x[o:o+st:o+st], x[o+st:o+2*st:o+2*st]
+	b := l.opB[o : o+st : o+st]
+	c, w, s := l.c[o:o+st:o+st], l.w[o:o+st:o+st], l.s[o:o+st:o+st]
+	sw, se := l.sw[o:o+st:o+st], l.se[o:o+st:o+st]
+	sN, swN, seN := l.s[o+st:o+2*st:o+2*st], l.sw[o+st:o+2*st:o+2*st], l.se[o+st:o+2*st:o+2*st]
 	for q := 0; q < 2; q++ {
 		pi := q
 		if back {
 			pi = 1 - q
 		}
-		for i := pi; i < l.nx; i += 2 {
-			n := o + i
-			v := b[n] - w[n]*x[n-1] - w[n+1]*x[n+1] - s[n]*x[n-st] - s[n+st]*x[n+st] -
-				sw[n]*x[n-st-1] - se[n]*x[n-st+1] - sw[n+st+1]*x[n+st+1] - se[n+st-1]*x[n+st-1]
-			x[n] = v / c[n]
+		for i := 1 + pi; i+1 < len(xr); i += 2 {
+			v := b[i] - w[i]*xr[i-1] - w[i+1]*xr[i+1] - s[i]*xs[i] - sN[i]*xn[i] -
+				sw[i]*xs[i-1] - se[i]*xs[i+1] - swN[i+1]*xn[i+1] - seN[i-1]*xn[i-1]
+			xr[i] = v / c[i]
 		}
 	}
 }
@@ -226,16 +230,19 @@ func (l *coarseLevel) residual(r, x, b []float64) {
 
 func (l *coarseLevel) residualBlocks(lo, hi int) {
 	st := l.st
-	x, b, r := l.opX, l.opB, l.opR
-	c, w, s, sw, se := l.c, l.w, l.s, l.sw, l.se
 	for blk := lo; blk < hi; blk++ {
 		j0, j1 := l.rows(blk)
 		for j := j0; j < j1; j++ {
-			o := (j+1)*st + 1
-			for i := 0; i < l.nx; i++ {
-				n := o + i
-				r[n] = b[n] - c[n]*x[n] - w[n]*x[n-1] - w[n+1]*x[n+1] - s[n]*x[n-st] - s[n+st]*x[n+st] -
-					sw[n]*x[n-st-1] - se[n]*x[n-st+1] - sw[n+st+1]*x[n+st+1] - se[n+st-1]*x[n+st-1]
+			o := (j + 1) * st
+			x := l.opX
+			xs, xr, xn := x[o-st:o:o], x[o:o+st:o+st], x[o+st:o+2*st:o+2*st]
+			b, r := l.opB[o:o+st:o+st], l.opR[o:o+st:o+st]
+			c, w, s := l.c[o:o+st:o+st], l.w[o:o+st:o+st], l.s[o:o+st:o+st]
+			sw, se := l.sw[o:o+st:o+st], l.se[o:o+st:o+st]
+			sN, swN, seN := l.s[o+st:o+2*st:o+2*st], l.sw[o+st:o+2*st:o+2*st], l.se[o+st:o+2*st:o+2*st]
+			for i := 1; i+1 < len(xr); i++ {
+				r[i] = b[i] - c[i]*xr[i] - w[i]*xr[i-1] - w[i+1]*xr[i+1] - s[i]*xs[i] - sN[i]*xn[i] -
+					sw[i]*xs[i-1] - se[i]*xs[i+1] - swN[i+1]*xn[i+1] - seN[i-1]*xn[i-1]
 			}
 		}
 	}
