@@ -18,6 +18,7 @@ package bc
 
 import (
 	"math"
+	"sort"
 
 	"github.com/phigrid/phigrid/grid"
 )
@@ -120,35 +121,82 @@ func (r *rasterizer) cellRho(x0, y0, x1, y1 float64, lines int) float64 {
 }
 
 // tube returns the directional permittivity of the rectangle [x0, x1] ×
-// [y0, y1] for flux along X (alongX) or along Y: the arithmetic mean over
-// rows lines across the tube of the harmonic mean along each line. It
-// returns 0 when the tube lies inside conductors.
+// [y0, y1] for flux along X (alongX) or along Y: the mean across the tube
+// of the harmonic mean of ε along each line parallel to the flux. The
+// material changes across the tube are located exactly on three lines
+// across it (at both ends and in the middle), and between them the mean is
+// integrated with lines Gauss–Legendre points per piece, so layers parallel
+// to the flux are averaged exactly too. It returns 0 when the tube lies
+// inside conductors.
 func (r *rasterizer) tube(x0, y0, x1, y1 float64, alongX bool, lines int) float64 {
-	var sum float64
-	var n int
-	for b := 0; b < lines; b++ {
-		f := (float64(b) + 0.5) / float64(lines)
-		var e, free float64
+	// Breakpoints across the tube, as fractions of its width.
+	cuts := []float64{0, 1}
+	for _, f := range [3]float64{0.02, 0.5, 0.98} {
+		var segs []lineSeg
 		if alongX {
-			y := y0 + f*(y1-y0)
-			e, free = r.lineHarmonic(x0, y, x1, y)
-		} else {
 			x := x0 + f*(x1-x0)
-			e, free = r.lineHarmonic(x, y0, x, y1)
+			segs = r.lineSegments(x, y0, x, y1)
+		} else {
+			y := y0 + f*(y1-y0)
+			segs = r.lineSegments(x0, y, x1, y)
 		}
-		if free > 0 {
-			sum += e
-			n++
+		for _, sg := range segs[1:] {
+			cuts = append(cuts, sg.t0)
 		}
 	}
-	if n == 0 {
+	sort.Float64s(cuts)
+	nodes, weights := gaussLegendre(lines)
+	var sum, wsum float64
+	for k := 0; k+1 < len(cuts); k++ {
+		a, b := cuts[k], cuts[k+1]
+		if b-a < 1e-12 {
+			continue
+		}
+		for q, u := range nodes {
+			f := a + 0.5*(u+1)*(b-a)
+			w := 0.5 * (b - a) * weights[q]
+			var e, free float64
+			if alongX {
+				y := y0 + f*(y1-y0)
+				e, free = r.lineHarmonic(x0, y, x1, y)
+			} else {
+				x := x0 + f*(x1-x0)
+				e, free = r.lineHarmonic(x, y0, x, y1)
+			}
+			if free > 0 {
+				sum += w * e
+				wsum += w
+			}
+		}
+	}
+	if wsum == 0 {
 		return 0
 	}
-	return sum / float64(n)
+	return sum / wsum
+}
+
+// gaussLegendre returns the nodes and weights of the n-point Gauss–Legendre
+// rule on [−1, 1] for n up to 4 (more points fall back to 4).
+func gaussLegendre(n int) ([]float64, []float64) {
+	switch {
+	case n <= 1:
+		return []float64{0}, []float64{2}
+	case n == 2:
+		a := 1 / math.Sqrt(3)
+		return []float64{-a, a}, []float64{1, 1}
+	case n == 3:
+		a := math.Sqrt(0.6)
+		return []float64{-a, 0, a}, []float64{5.0 / 9, 8.0 / 9, 5.0 / 9}
+	}
+	a := math.Sqrt(3.0/7 - 2.0/7*math.Sqrt(1.2))
+	b := math.Sqrt(3.0/7 + 2.0/7*math.Sqrt(1.2))
+	wa := (18 + math.Sqrt(30)) / 36
+	wb := (18 - math.Sqrt(30)) / 36
+	return []float64{-b, -a, a, b}, []float64{wb, wa, wa, wb}
 }
 
 // directional fills EpsX and EpsY of cell c = (i, j), whose plain mean is
-// mean, from lines per half-cell lines.
+// mean, with lines Gauss points per piece of each half-cell.
 func (r *rasterizer) directional(m *Map, i, j, c int, mean float64, lines int) {
 	xs, ys := r.g.X(), r.g.Y()
 	x0, x1, y0, y1 := xs[i], xs[i+1], ys[j], ys[j+1]

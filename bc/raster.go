@@ -584,7 +584,7 @@ func (r *rasterizer) cells(m *Map, states []pointState, samples int) {
 		m.EpsY[2*c], m.EpsY[2*c+1] = e, e
 	}
 	for _, c := range mixedEps {
-		r.directional(m, c%cx, c/cx, c, m.Eps[c], samples)
+		r.directional(m, c%cx, c/cx, c, m.Eps[c], 2)
 	}
 }
 

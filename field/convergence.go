@@ -39,8 +39,9 @@ type Estimate struct {
 	// only two levels.
 	Observed float64
 	// Order is the order used for the extrapolation and the band: the
-	// observed order limited to [MinOrder, formal order], or the formal
-	// order when none was observed.
+	// observed order limited to [MinOrder, formal order], the formal order
+	// for two levels or oscillating values, and MinOrder when the values
+	// do not converge.
 	Order float64
 	// Extrapolated is the Richardson extrapolation of the two finest
 	// values with Order.
@@ -292,10 +293,11 @@ func levelQuantities(ctx context.Context, p *bc.Problem, g *grid.Grid, set *Sett
 // (1994) 405–413) is Fs·|f₁ − f₂|/(r₂₁ᵖ − 1) with Fs = 1.25.
 //
 // Peak values, two levels, and differences that change sign (oscillating
-// convergence) or grow (divergence) use Fs = 3 (the formal order when
-// none was observed), and their band also covers the coarser step scaled
-// to the finest grid, max(|f₁ − f₂|, |f₂ − f₃|/r₂₁ᵖ)·Fs/(r^p − 1), since
-// the finest difference may happen to be small.
+// convergence) or do not shrink use Fs = 3, and all but two levels also
+// cover the coarser step scaled to the finest grid,
+// max(|f₁ − f₂|, |f₂ − f₃|/r₂₁ᵖ)·Fs/(r^p − 1), since the finest difference
+// may happen to be small. The order is the formal one for two levels and
+// oscillating values, and MinOrder for differences that do not shrink.
 func Richardson(h, f []float64, formal float64, peak bool) Estimate {
 	n := len(f)
 	e := Estimate{Values: append([]float64(nil), f...), Observed: math.NaN(), Order: formal, Safety: 3}
@@ -327,7 +329,10 @@ func Richardson(h, f []float64, formal float64, peak bool) Estimate {
 		default:
 			p, ok := observedOrder(d21, d32, r21, r32)
 			if !ok {
+				// The differences do not shrink: assume the slowest
+				// convergence the band allows for.
 				e.Note = "not converging"
+				e.Order = MinOrder
 				wide = true
 				break
 			}

@@ -141,7 +141,7 @@ func concentricSpheres(a, b float64) *bc.Problem {
 
 // check is one quantity of a reference case.
 type check struct {
-	quantity string  // estimate name, or "phi(x,y)" for the finest potential there
+	quantity string  // estimate name, or "phi(x,y)" or "Ex(x,y)" for the finest potential or field there
 	scale    float64 // multiplies the estimate (symmetry, sign)
 	want     float64
 	tol      float64 // relative tolerance at the finest grid
@@ -257,6 +257,24 @@ func TestReferenceCases(t *testing.T) {
 			},
 		},
 		{
+			name:   "P13a dielectric cylinder in a uniform field",
+			reason: "curved dielectric interface off the grid lines, exact potential on the box",
+			build: func(t testing.TB) (*bc.Problem, []*grid.Grid) {
+				p := cylinderInField(5*mm, 1000, 15*mm, 4)
+				return p, ladder(t, p, 0.5*mm, 3)
+			},
+			checks: []check{
+				// source: REFERENCES P13a, E_in = 2E0/(εr+1) = 400 V/m, uniform inside (2-D analogue of Jackson §4.4)
+				{"Ex(0,0)", 1, 400, 5e-3, 0, "P13a"},
+				// source: REFERENCES P13a, the peak inside the rod is the uniform interior field; it sits next to
+				// the interface, where the five-point operator is first order, so only the band is checked
+				{"Emax(rod)", 1, 400, 2e-2, 0, "P13a"},
+				// source: REFERENCES P13a, just outside at θ = 0: 1600 V/m; the cells next to the interface are
+				// left out of the peak, so only the band is checked
+				{"Emax(background)", 1, 1600, 5e-2, 0, "P13a"},
+			},
+		},
+		{
 			name:   "P13b conducting cylinder in a uniform field",
 			reason: "peak surface field 2E0 with the exact potential on the box",
 			build: func(t testing.TB) (*bc.Problem, []*grid.Grid) {
@@ -287,10 +305,17 @@ func TestReferenceCases(t *testing.T) {
 			}
 			t.Logf("%s (%s)\n%s", c.name, c.reason, conv)
 			for _, ck := range c.checks {
-				if strings.HasPrefix(ck.quantity, "phi(") {
+				if strings.HasPrefix(ck.quantity, "phi(") || strings.HasPrefix(ck.quantity, "Ex(") {
 					var x, y float64
-					fmt.Sscanf(ck.quantity, "phi(%g,%g)", &x, &y)
-					got, _ := conv.Finest.PotentialAt(x, y)
+					var got float64
+					if _, err := fmt.Sscanf(ck.quantity[strings.Index(ck.quantity, "("):], "(%g,%g)", &x, &y); err != nil {
+						t.Fatalf("bad point in %q: %v", ck.quantity, err)
+					}
+					if ck.quantity[0] == 'p' {
+						got, _ = conv.Finest.PotentialAt(x, y)
+					} else {
+						got, _, _ = conv.Finest.FieldAt(x, y)
+					}
 					rel := math.Abs(got/ck.want - 1)
 					t.Logf("%s %s: finest %.8g, want %.8g, rel err %.2e", ck.source, ck.quantity, got, ck.want, rel)
 					if rel > ck.tol {
