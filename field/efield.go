@@ -150,11 +150,12 @@ func clampCell(nx, ny, i, j int, s, t float64) (int, int, float64, float64) {
 	return i, j, s, t
 }
 
-// FieldAt returns E at (x, y); ok is false outside the grid. Inside a cell
-// whose corners are all free it interpolates the nodal field bilinearly
-// (second order); in a cell touching a conductor it uses the gradient of
-// the bilinear potential, which does not mix in the zero field inside the
-// conductor. The nodal field is computed once and cached.
+// FieldAt returns E at (x, y); ok is false outside the grid. It
+// interpolates the nodal field bilinearly (second order). In a cell that
+// touches a conductor only the free corners take part, with their weights
+// renormalised, so the zero field inside the conductor is not mixed in;
+// a cell with no free corner uses the gradient of the bilinear potential.
+// The nodal field is computed once and cached.
 func (sol *Solution) FieldAt(x, y float64) (ex, ey float64, ok bool) {
 	g := sol.Grid
 	i, j, s, t, ok := g.Locate(x, y)
@@ -164,20 +165,31 @@ func (sol *Solution) FieldAt(x, y float64) (ex, ey float64, ok bool) {
 	i, j, s, t = clampCell(g.Nx(), g.Ny(), i, j, s, t)
 	nx := g.Nx()
 	n := j*nx + i
-	k := sol.Map.Kind
-	if k[n] == bc.OnConductor || k[n+1] == bc.OnConductor || k[n+nx] == bc.OnConductor || k[n+nx+1] == bc.OnConductor {
-		xs, ys := g.X(), g.Y()
-		hx, hy := xs[i+1]-xs[i], ys[j+1]-ys[j]
-		p := sol.Phi
-		ex = -((1-t)*(p[n+1]-p[n]) + t*(p[n+nx+1]-p[n+nx])) / hx
-		ey = -((1-s)*(p[n+nx]-p[n]) + s*(p[n+nx+1]-p[n+1])) / hy
-		return ex, ey, true
-	}
 	if sol.ex == nil {
 		sol.ex, sol.ey = sol.NodeFieldTo(nil, nil)
 	}
-	w00, w10, w01, w11 := (1-s)*(1-t), s*(1-t), (1-s)*t, s*t
-	ex = w00*sol.ex[n] + w10*sol.ex[n+1] + w01*sol.ex[n+nx] + w11*sol.ex[n+nx+1]
-	ey = w00*sol.ey[n] + w10*sol.ey[n+1] + w01*sol.ey[n+nx] + w11*sol.ey[n+nx+1]
+	k := sol.Map.Kind
+	corners := [4]int{n, n + 1, n + nx, n + nx + 1}
+	weights := [4]float64{(1 - s) * (1 - t), s * (1 - t), (1 - s) * t, s * t}
+	var wsum float64
+	for c, idx := range corners {
+		if k[idx] == bc.OnConductor {
+			weights[c] = 0
+		}
+		wsum += weights[c]
+	}
+	if wsum > 1e-12 {
+		for c, idx := range corners {
+			w := weights[c] / wsum
+			ex += w * sol.ex[idx]
+			ey += w * sol.ey[idx]
+		}
+		return ex, ey, true
+	}
+	xs, ys := g.X(), g.Y()
+	hx, hy := xs[i+1]-xs[i], ys[j+1]-ys[j]
+	p := sol.Phi
+	ex = -((1-t)*(p[n+1]-p[n]) + t*(p[n+nx+1]-p[n+nx])) / hx
+	ey = -((1-s)*(p[n+nx]-p[n]) + s*(p[n+nx+1]-p[n+1])) / hy
 	return ex, ey, true
 }
