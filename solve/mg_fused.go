@@ -70,6 +70,8 @@ func (f *fineLevel) redBlocks(lo, hi int) {
 	ax, ay, ix, iy := s.AX, s.AY, f.ix, f.iy
 	ncx, cst := f.ncx, f.ncx+2
 	blocks := min(64, f.ncy)
+	// nXE is the number of x-edge points on an even row.
+	nXE := nx / 2
 	for blk := lo; blk < hi; blk++ {
 		buf := f.redBuf[blk*4*ncx : (blk+1)*4*ncx]
 		prev, next, carry, rc := buf[:ncx], buf[ncx:2*ncx], buf[2*ncx:3*ncx], buf[3*ncx:]
@@ -84,46 +86,61 @@ func (f *fineLevel) redBlocks(lo, hi int) {
 				f.residualRow(j+1, 1, next)
 			}
 			f.residualRow(j, 0, rc)
-			d := dst(f.cb, (J+1)*cst+1, ncx)
+			d := f.cb[(J+1)*cst+1 : (J+1)*cst+1+ncx]
 			copy(d, rc)
 			q0, k0 := j*nx, ncx*J
+			axR, ayR, ixR, iyR := ax[q0:q0+nx], ay[q0:q0+nx], ix[k0:k0+ncx], iy[k0:k0+ncx]
 			// South y-edges: carried from the row below, or computed
 			// afresh at the block's first row by the same expression.
 			if J > 0 {
 				if J == J0 {
-					for I := 0; I < ncx; I++ {
-						e := q0 + 2*I - nx
-						carry[I] = ay[e] * iy[k0+I-ncx] * yEdgeT(ax, inv, prev, e, 2*I, nx, I)
+					qs := q0 - nx
+					axS, ayS, invS, iyS := ax[qs:qs+nx], ay[qs:qs+nx], inv[qs:qs+nx], iy[k0-ncx:k0]
+					for I := range carry {
+						carry[I] = ayS[2*I] * iyS[I] * yEdgeT(axS, invS, prev, 2*I, nx, I)
 					}
 				}
-				for I := 0; I < ncx; I++ {
-					d[I] += carry[I]
+				for I, v := range carry {
+					d[I] += v
 				}
 			}
 			// x-edges of this row, to both coarse neighbours.
-			for I := 0; 2*I+1 < nx; I++ {
-				q := q0 + 2*I
-				e := q + 1
-				var t float64
-				if J > 0 {
-					t = ay[e-nx] * inv[e-nx] * prev[I]
+			switch {
+			case J > 0 && hasN:
+				qs := q0 - nx
+				ayS, invS, invN := ay[qs:qs+nx], inv[qs:qs+nx], inv[q0+nx:q0+2*nx]
+				for I := 0; I < nXE; I++ {
+					i := 2*I + 1
+					t := ayS[i]*invS[i]*prev[I] + ayR[i]*invN[i]*next[I]
+					d[I] += axR[i-1] * ixR[I] * t
+					if I+1 < ncx {
+						d[I+1] += axR[i] * ixR[I] * t
+					}
 				}
-				if hasN {
-					t += ay[e] * inv[e+nx] * next[I]
-				}
-				d[I] += ax[q] * ix[k0+I] * t
-				if I+1 < ncx {
-					d[I+1] += ax[e] * ix[k0+I] * t
+			default:
+				for I := 0; I < nXE; I++ {
+					e := q0 + 2*I + 1
+					var t float64
+					if J > 0 {
+						t = ay[e-nx] * inv[e-nx] * prev[I]
+					}
+					if hasN {
+						t += ay[e] * inv[e+nx] * next[I]
+					}
+					d[I] += ax[e-1] * ixR[I] * t
+					if I+1 < ncx {
+						d[I+1] += ax[e] * ixR[I] * t
+					}
 				}
 			}
 			// North y-edges, to this row and carried to the next.
 			if hasN {
-				for I := 0; I < ncx; I++ {
-					q := q0 + 2*I
-					e := q + nx
-					t := yEdgeT(ax, inv, next, e, 2*I, nx, I)
-					d[I] += ay[q] * iy[k0+I] * t
-					carry[I] = ay[e] * iy[k0+I] * t
+				qn := q0 + nx
+				axN, ayN, invN := ax[qn:qn+nx], ay[qn:qn+nx], inv[qn:qn+nx]
+				for I := range carry {
+					t := yEdgeT(axN, invN, next, 2*I, nx, I)
+					d[I] += ayR[2*I] * iyR[I] * t
+					carry[I] = ayN[2*I] * iyR[I] * t
 				}
 			}
 			prev, next = next, prev
@@ -131,17 +148,16 @@ func (f *fineLevel) redBlocks(lo, hi int) {
 	}
 }
 
-// yEdgeT is what the centre neighbours of y-edge point e = (i, ·) pass on
-// to it; cr holds the residuals of the centres of its row.
-func yEdgeT(ax, inv, cr []float64, e, i, nx, I int) float64 {
+// yEdgeT is what the centre neighbours of the y-edge point in column i
+// pass on to it; ax and inv are the couplings and inverse diagonals of its
+// row, cr the residuals of the row's centres.
+func yEdgeT(ax, inv, cr []float64, i, nx, I int) float64 {
 	var t float64
 	if i > 0 {
-		t = ax[e-1] * inv[e-1] * cr[I-1]
+		t = ax[i-1] * inv[i-1] * cr[I-1]
 	}
 	if i+1 < nx {
-		t += ax[e] * inv[e+1] * cr[I]
+		t += ax[i] * inv[i+1] * cr[I]
 	}
 	return t
 }
-
-func dst(v []float64, o, n int) []float64 { return v[o : o+n] }
