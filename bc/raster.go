@@ -558,9 +558,15 @@ func (r *rasterizer) cells(m *Map, states []pointState, samples int) {
 					rsum += r.rho(s)
 				}
 			}
-			if ne > 0 {
+			switch {
+			case ne > 0:
 				m.Eps[c] = esum / float64(ne)
-			} else {
+			case !math.IsNaN(first):
+				// Every sample lies in a conductor, but a corner does not:
+				// the sliver next to that free corner carries the flux of
+				// its cut links.
+				m.Eps[c] = first
+			default:
 				m.Eps[c] = under
 			}
 			if several {
