@@ -182,12 +182,18 @@ func (d *decoder) materials(raw *rawFile) error {
 	if err != nil {
 		return err
 	}
-	if eps == 0 {
+	switch {
+	case eps == 0:
 		m, err := d.material("domain", "vacuum")
 		if err != nil {
 			return err
 		}
 		eps = m.EpsR
+		d.m.Background = m.Name
+	case raw.Domain.Material != "":
+		if m, ok := d.mats.lookup(raw.Domain.Material); ok {
+			d.m.Background = m.Name
+		}
 	}
 	d.p.Background = eps
 	return nil

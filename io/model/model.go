@@ -122,6 +122,9 @@ type Model struct {
 	// Materials lists the materials the model uses (background and
 	// dielectric and charge regions), in order of first use.
 	Materials []Material
+	// Background names the domain's material ("air"), or is empty when
+	// the domain gives eps_r directly.
+	Background string
 	// RegionMaterial[n] names the material of Problem.Regions[n], or is
 	// empty when the region gives eps_r directly or sets no permittivity.
 	RegionMaterial []string
