@@ -323,11 +323,18 @@ func (r *Report) writeCuts(w io.Writer) {
 	fmt.Fprintf(tw, "  name\tfrom → to %s\tsamples\tpotential\tpeak |E|\tat %s\n", r.Units.Length, r.axes())
 	for _, c := range r.Cuts {
 		lo, hi := math.Inf(1), math.Inf(-1)
-		var pk Sample
+		emax := 0.0
 		for _, s := range c.Samples {
 			lo, hi = math.Min(lo, s.Potential), math.Max(hi, s.Potential)
-			if s.E >= pk.E {
+			emax = math.Max(emax, s.E)
+		}
+		// The first sample within round-off of the peak, so that ties in a
+		// uniform field do not move with the last digits.
+		var pk Sample
+		for _, s := range c.Samples {
+			if s.E >= emax*(1-1e-9) {
 				pk = s
+				break
 			}
 		}
 		vs := r.potentialScale()
