@@ -20,6 +20,7 @@ func newDefault(sys *System, set Settings) (Solver, error) {
 	c := newCG(sys, set)
 	c.method = MGCG
 	mg := newMultigrid(sys, c.k, set)
+	prefault(mg.runner(sys.Len()), c.r, c.z, c.p, c.q)
 	c.precond = mg.Precondition
 	c.setup = time.Since(start)
 	return &mgcgSolver{cgSolver: c, mg: mg}, nil

@@ -136,12 +136,15 @@ func newMultigrid(sys *System, k *kernels, set Settings) *Multigrid {
 		ncx, ncy := (nx+1)/2, (ny+1)/2
 		c := newCoarseLevel(ncx, ncy)
 		c.run = m.runner(ncx * ncy)
+		prefault(c.run, c.c, c.w, c.s, c.sw, c.se, c.x, c.b, c.r)
 		switch l := cur.(type) {
 		case *fineLevel:
 			l.ncx, l.ncy = ncx, ncy
 			l.prepare()
 		case *coarseLevel:
 			l.ncx, l.ncy = ncx, ncy
+			l.p = make([]float64, pLen*ncx*ncy)
+			prefault(l.run, l.p)
 			l.computeWeights()
 		}
 		switch l := cur.(type) {

@@ -334,7 +334,9 @@ func (l *coarseLevel) computeWeights() {
 	ncx, ncy := l.ncx, l.ncy
 	nx, ny, st := l.nx, l.ny, l.st
 	c, w, sa, sw, se, fx := l.c, l.w, l.s, l.sw, l.se, l.fixed
-	l.p = make([]float64, pLen*ncx*ncy)
+	if len(l.p) != pLen*ncx*ncy {
+		l.p = make([]float64, pLen*ncx*ncy)
+	}
 	p := l.p
 	for J := 0; J < ncy; J++ {
 		for I := 0; I < ncx; I++ {

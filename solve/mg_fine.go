@@ -85,6 +85,7 @@ func (f *fineLevel) prepare() {
 	f.redBuf = make([]float64, 4*f.ncx*min(64, f.ncy))
 	f.ix = make([]float64, f.ncx*f.ncy)
 	f.iy = make([]float64, f.ncx*f.ncy)
+	prefault(f.run, f.ix, f.iy)
 	for J := 0; J < f.ncy; J++ {
 		for I := 0; I < f.ncx; I++ {
 			i, j := 2*I, 2*J
