@@ -25,8 +25,11 @@ type axisPlan struct {
 	ratio          float64
 }
 
-// size returns the largest cell size allowed at x.
+// size returns the largest cell size allowed at x. Away from a span the
+// size grows linearly with slope 2(r−1)/(r+1): two neighbouring cells h and
+// r·h have their middles (1+r)·h/2 apart, so that slope makes their ratio r.
 func (a *axisPlan) size(x float64) float64 {
+	g := 2 * (a.ratio - 1) / (a.ratio + 1)
 	h := a.cell
 	far := (a.openLo && x < a.nearLo) || (a.openHi && x > a.nearHi)
 	if far {
@@ -35,9 +38,8 @@ func (a *axisPlan) size(x float64) float64 {
 		if x > a.nearHi {
 			d = x - a.nearHi
 		}
-		h = a.cell + (a.ratio-1)*d
+		h = a.cell + g*d
 	}
-	g := a.ratio - 1
 	for _, s := range a.spans {
 		d := 0.0
 		if x < s.lo {
