@@ -230,16 +230,6 @@ func (p *Problem) far() FarField {
 	return f
 }
 
-// hasOpen reports whether any side is Open.
-func (p *Problem) hasOpen() bool {
-	for _, s := range p.Sides {
-		if s.Kind == Open {
-			return true
-		}
-	}
-	return false
-}
-
 // ConductorIndex returns the index of the named conductor, or −1.
 func (p *Problem) ConductorIndex(name string) int {
 	for k, c := range p.Conductors {
