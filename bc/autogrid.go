@@ -34,6 +34,12 @@ type Mesh struct {
 	// (rectangle corners, polygon vertices, strip ends), where the field is
 	// singular. Zero means 2; 1 turns it off.
 	Corner float64
+	// Halvings halves every cell size the rules below ask for (the target,
+	// the fine sizes, the curvature and gap rules) this many times and takes
+	// the square root of Ratio each time, so the grid is refined in the
+	// same pattern: the grids of a convergence study. Zero means the grid as
+	// described.
+	Halvings int
 }
 
 // withDefaults returns m with its zero fields replaced by the defaults,
@@ -71,6 +77,9 @@ func (m Mesh) withDefaults() (Mesh, error) {
 	}
 	if !(m.Corner >= 1) || math.IsInf(m.Corner, 0) {
 		return m, fmt.Errorf("%w: the corner refinement must be ≥ 1, got %g", ErrProblem, m.Corner)
+	}
+	if m.Halvings < 0 || m.Halvings > 30 {
+		return m, fmt.Errorf("%w: the number of halvings must lie in [0, 30], got %d", ErrProblem, m.Halvings)
 	}
 	return m, nil
 }
@@ -152,6 +161,7 @@ func (p *Problem) Features() (xs, ys []float64) {
 // the Cell cap is lifted: the cells keep growing by Ratio, which makes a
 // far region out to a distant open boundary cheap (see ExtendOpen).
 // Features closer than a quarter of the local cell size are merged.
+// Mesh.Halvings refines all of it in the same pattern.
 func AutoGrid(p *Problem, m Mesh) (*grid.Grid, error) {
 	m, err := m.withDefaults()
 	if err != nil {

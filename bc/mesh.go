@@ -260,6 +260,17 @@ func plan(p *Problem, m Mesh) (px, py *axisPlan) {
 			pairGap(px, py, p.Regions[a].Shape, p.Regions[b].Shape, gapCells)
 		}
 	}
+	// Refine the whole pattern: every size halves and the ratio's root is
+	// taken once per halving, so gradings keep their physical extent.
+	scale := math.Pow(0.5, float64(m.Halvings))
+	ratio := math.Pow(m.Ratio, scale)
+	for _, ax := range []*axisPlan{px, py} {
+		ax.cell *= scale
+		ax.ratio = ratio
+		for k := range ax.spans {
+			ax.spans[k].h *= scale
+		}
+	}
 	return px, py
 }
 

@@ -141,9 +141,9 @@ const (
 )
 
 // Converge solves p on levels grids built by bc.AutoGrid, the coarsest
-// from mesh and each next one with half its cell size (Mesh.Cell halves
-// and the growth ratio is square-rooted, so the grading stays
-// geometrically similar), and estimates the discretisation error of every
+// from mesh and each next one with one more halving (bc.Mesh.Halvings:
+// every cell size halves and the growth ratio is square-rooted, so the
+// grading keeps its pattern), and estimates the discretisation error of every
 // quantity (see Convergence). levels must lie in [2, 5]; three levels give
 // an observed order, two assume the formal order with a larger safety
 // factor. Every level costs a solve per conductor plus two, and the finest
@@ -152,15 +152,10 @@ func Converge(ctx context.Context, p *bc.Problem, mesh bc.Mesh, levels int, set 
 	if levels < 2 || levels > 5 {
 		return nil, fmt.Errorf("%w: a convergence study needs 2 to 5 levels, got %d", ErrConvergence, levels)
 	}
-	ratio := mesh.Ratio
-	if ratio == 0 {
-		ratio = 1.2
-	}
 	grids := make([]*grid.Grid, levels)
 	for l := range grids {
 		m := mesh
-		m.Cell = mesh.Cell / math.Pow(2, float64(l))
-		m.Ratio = math.Pow(ratio, 1/math.Pow(2, float64(l)))
+		m.Halvings = mesh.Halvings + l
 		g, err := bc.AutoGrid(p, m)
 		if err != nil {
 			return nil, fmt.Errorf("field: convergence level %d: %w", l, err)
