@@ -271,3 +271,34 @@ func TestExtendOpen(t *testing.T) {
 		t.Errorf("factor below 1: got %v", err)
 	}
 }
+
+func TestEllipse(t *testing.T) {
+	e := Ellipse{X: 1, Y: 2, A: 0.5, B: 2}
+	for _, c := range []struct {
+		x, y float64
+		in   bool
+	}{{1, 2, true}, {1.5, 2, true}, {1, 4, true}, {1.51, 2, false}, {1, 4.01, false}, {1.4, 3.5, false}, {1.3, 3.1, true}} {
+		if got := e.Contains(c.x, c.y); got != c.in {
+			t.Errorf("Contains(%g, %g) = %v, want %v", c.x, c.y, got, c.in)
+		}
+	}
+	if x0, y0, x1, y1 := e.Bounds(); x0 != 0.5 || y0 != 0 || x1 != 1.5 || y1 != 4 {
+		t.Errorf("Bounds = %g, %g, %g, %g", x0, y0, x1, y1)
+	}
+	for _, bad := range []Ellipse{{A: 0, B: 1}, {A: 1, B: -1}, {A: math.Inf(1), B: 1}} {
+		if bad.Validate() == nil {
+			t.Errorf("%+v validated", bad)
+		}
+	}
+	// A spheroid centred on the axis is a valid r–z shape.
+	p := &Problem{
+		Metric:     grid.Axisymmetric,
+		Domain:     Rect{0, -1, 1, 1},
+		Conductors: []Conductor{{Name: "s", Potential: 1}},
+		Regions:    []Region{{Kind: ConductorRegion, Conductor: "s", Shape: Ellipse{A: 0.2, B: 0.5}}},
+	}
+	p.Sides[Right] = Side{Kind: Fixed}
+	if err := p.Validate(); err != nil {
+		t.Errorf("spheroid on the axis: %v", err)
+	}
+}

@@ -150,7 +150,9 @@ func (p *Problem) Features() (xs, ys []float64) {
 //   - Cell/(Refine·Corner) at conductor corners and strip ends;
 //   - over the extent of a circle or annulus, min(R/4, max(Cell/Refine,
 //     R/16)), so that round surfaces, where peak fields sit, are resolved
-//     all round and not only at their extremes;
+//     all round and not only at their extremes (an ellipse counts as a
+//     circle of its minor semi-axis, and its tips get an eighth of their
+//     radius of curvature);
 //   - Gap cells across every thin gap: between two shapes facing each
 //     other (the exact narrowest gap for circles and the bores of
 //     annuli, the bounding boxes otherwise), between a shape and a fixed

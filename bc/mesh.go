@@ -216,6 +216,20 @@ func plan(p *Problem, m Mesh) (px, py *axisPlan) {
 		switch s := r.Shape.(type) {
 		case Circle:
 			curve(px, py, s.X, s.Y, s.R, fine, m.Cell)
+		case Ellipse:
+			// Resolve it like a circle of the minor semi-axis, and its
+			// tips, where the radius of curvature is smallest.
+			lo, hi := math.Min(s.A, s.B), math.Max(s.A, s.B)
+			curve(px, py, s.X, s.Y, lo, fine, m.Cell)
+			tip := lo * lo / hi
+			h := math.Min(fine, tip/8)
+			if s.A >= s.B {
+				px.spans = append(px.spans, span{s.X - s.A, s.X - s.A, h}, span{s.X + s.A, s.X + s.A, h})
+				py.spans = append(py.spans, span{s.Y, s.Y, h})
+			} else {
+				py.spans = append(py.spans, span{s.Y - s.B, s.Y - s.B, h}, span{s.Y + s.B, s.Y + s.B, h})
+				px.spans = append(px.spans, span{s.X, s.X, h})
+			}
 		case Annulus:
 			curve(px, py, s.X, s.Y, s.R1, fine, m.Cell)
 			if s.R0 > 0 {
@@ -243,7 +257,9 @@ func plan(p *Problem, m Mesh) (px, py *axisPlan) {
 		}
 		// A dielectric or charge layer gets Gap cells across.
 		if !cond {
-			if _, round := r.Shape.(Circle); !round {
+			switch r.Shape.(type) {
+			case Circle, Ellipse:
+			default:
 				x0, y0, x1, y1 := r.Shape.Bounds()
 				if w := x1 - x0; w > 0 {
 					px.spans = append(px.spans, span{x0, x1, w / gapCells})

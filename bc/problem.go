@@ -373,10 +373,12 @@ func regionLabel(n int, r Region) string {
 
 // minRadius returns the smallest r at which a shape is defined in an
 // axisymmetric problem: its leftmost vertex or corner, or the centre of a
-// circle or annulus (a circle centred on the axis is a sphere).
+// circle, ellipse or annulus (a circle centred on the axis is a sphere).
 func minRadius(s Shape) float64 {
 	switch v := s.(type) {
 	case Circle:
+		return v.X
+	case Ellipse:
 		return v.X
 	case Annulus:
 		return v.X

@@ -7,7 +7,7 @@ import (
 
 // Shape is a closed region of the plane (the r–z half-plane in an
 // axisymmetric problem). Implementations in this package are Rect, Circle,
-// Annulus, Polygon and Strip.
+// Ellipse, Annulus, Polygon and Strip.
 type Shape interface {
 	// Contains reports whether point (x, y) lies inside or on the shape.
 	Contains(x, y float64) bool
@@ -62,6 +62,33 @@ func (c Circle) Anchor() (x, y float64) { return c.X, c.Y }
 func (c Circle) Validate() error {
 	if !finite(c.X, c.Y, c.R) || !(c.R > 0) {
 		return fmt.Errorf("circle at (%g, %g) needs a finite positive radius, got %g", c.X, c.Y, c.R)
+	}
+	return nil
+}
+
+// Ellipse is the region ((x−X)/A)² + ((y−Y)/B)² ≤ 1, with semi-axis A
+// along X and B along Y. In an axisymmetric problem an ellipse centred on
+// the axis is a spheroid: prolate when B > A, oblate when B < A.
+type Ellipse struct{ X, Y, A, B float64 }
+
+// Contains implements Shape.
+func (e Ellipse) Contains(x, y float64) bool {
+	u, v := (x-e.X)/e.A, (y-e.Y)/e.B
+	return u*u+v*v <= 1
+}
+
+// Bounds implements Shape.
+func (e Ellipse) Bounds() (x0, y0, x1, y1 float64) {
+	return e.X - e.A, e.Y - e.B, e.X + e.A, e.Y + e.B
+}
+
+// Anchor implements Shape.
+func (e Ellipse) Anchor() (x, y float64) { return e.X, e.Y }
+
+// Validate implements Shape.
+func (e Ellipse) Validate() error {
+	if !finite(e.X, e.Y, e.A, e.B) || !(e.A > 0) || !(e.B > 0) {
+		return fmt.Errorf("ellipse at (%g, %g) needs finite positive semi-axes, got %g and %g", e.X, e.Y, e.A, e.B)
 	}
 	return nil
 }

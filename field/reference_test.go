@@ -87,6 +87,28 @@ func openSphere(t testing.TB, R float64) *bc.Problem {
 	return q
 }
 
+// openSpheroid is an isolated spheroid at 1 V in r–z, equatorial radius
+// req and polar semi-axis zp, with open sides three body sizes away,
+// extended eightfold.
+func openSpheroid(t testing.TB, req, zp float64) *bc.Problem {
+	t.Helper()
+	L := 3 * math.Max(req, zp)
+	p := &bc.Problem{
+		Metric:     grid.Axisymmetric,
+		Domain:     bc.Rect{X0: 0, Y0: -L, X1: L, Y1: L},
+		Conductors: []bc.Conductor{{Name: "spheroid", Potential: 1}},
+		Regions:    []bc.Region{{Kind: bc.ConductorRegion, Conductor: "spheroid", Shape: bc.Ellipse{A: req, B: zp}}},
+	}
+	for _, s := range []int{bc.Right, bc.Bottom, bc.Top} {
+		p.Sides[s] = bc.Side{Kind: bc.Open}
+	}
+	q, err := bc.ExtendOpen(p, 8)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return q
+}
+
 // twoWireQuarter is the quarter y ≥ 0, x ≥ 0 of a two-wire line (wires of
 // radius a at x = ±D/2, ±0.5 V) in open space: the plane x = 0 is at 0 V,
 // y = 0 is a symmetry plane, the far sides are open with the far-field
@@ -224,6 +246,38 @@ func TestReferenceCases(t *testing.T) {
 				{"C(sphere,sphere)", 1, 1.1126501 * pF, 2e-3, 0, "A01c"},
 				// source: REFERENCES A01(c), E = V/R = 100 V/m
 				{"Esurf(sphere)", 1, 100, 1e-2, 0, "A01c"},
+			},
+		},
+		{
+			name:   "A04a oblate spheroid",
+			reason: "r–z open boundary around a body whose far field is not a pure monopole; peak at the rim",
+			slow:   true,
+			build: func(t testing.TB) (*bc.Problem, []*grid.Grid) {
+				return openSpheroid(t, 10*mm, 5*mm), nil
+			},
+			mesh:   &bc.Mesh{Cell: 2 * mm, Refine: 4},
+			levels: 3,
+			checks: []check{
+				// source: REFERENCES A04(a), C = 4πε0·√(a²−c²)/arccos(c/a) (Landau & Lifshitz ECM §4, from memory)
+				{"C(spheroid,spheroid)", 1, 0.92015419 * pF, 2e-3, 0, "A04a"},
+				// source: REFERENCES A04(a), E_rim = CV/(4πε0·a·c), from σ on an ellipsoid
+				{"Esurf(spheroid)", 1, 165.39867, 1e-2, 0, "A04a"},
+			},
+		},
+		{
+			name:   "A04b prolate spheroid",
+			reason: "r–z open boundary; peak at the tip on the axis (radius of curvature 1.25 mm)",
+			slow:   true,
+			build: func(t testing.TB) (*bc.Problem, []*grid.Grid) {
+				return openSpheroid(t, 5*mm, 20*mm), nil
+			},
+			mesh:   &bc.Mesh{Cell: 2 * mm, Refine: 4},
+			levels: 3,
+			checks: []check{
+				// source: REFERENCES A04(b), C = 4πε0·f/artanh(f/a), f = √(a²−b²) (Landau & Lifshitz ECM §4, from memory)
+				{"C(spheroid,spheroid)", 1, 1.0441983 * pF, 2e-3, 0, "A04b"},
+				// source: REFERENCES A04(b), E_tip = CV/(4πε0·b²)
+				{"Esurf(spheroid)", 1, 375.39147, 1e-2, 0, "A04b"},
 			},
 		},
 		{
