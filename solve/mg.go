@@ -79,9 +79,6 @@ type Multigrid struct {
 	// nu is the number of relaxation steps before and after the coarse
 	// correction.
 	nu int
-	// fused selects the one-pass residual and restriction of the finest
-	// level after red-black relaxation.
-	fused bool
 }
 
 var _ Solver = (*Multigrid)(nil)
@@ -119,7 +116,7 @@ func NewMultigrid(sys *System, set *Settings) (*Multigrid, error) {
 // inverse diagonal) k.
 func newMultigrid(sys *System, k *kernels, set Settings) *Multigrid {
 	start := time.Now()
-	m := &Multigrid{sys: sys, set: set, k: k, nu: 1, fused: true}
+	m := &Multigrid{sys: sys, set: set, k: k, nu: 1}
 	m.fine = newFineLevel(sys, k)
 	m.fine.run = m.runner(sys.Len())
 	m.lv = []mgLevel{m.fine}
@@ -212,7 +209,7 @@ func (m *Multigrid) vcycle(l int, x, b []float64, zero bool) {
 		lv.smooth(x, b, zero && s == 0, false)
 	}
 	cx, cb, _ := m.vectors(l + 1)
-	if l == 0 && m.fine.smoother == PointGS && m.fused {
+	if l == 0 && m.fine.smoother == PointGS {
 		m.fine.restrictRed(cb, x, b)
 	} else {
 		lv.residual(r, x, b)
