@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strings"
 	"time"
 
 	"github.com/phigrid/phigrid/field"
@@ -337,7 +338,7 @@ func Build(sol *field.Solution, c [][]float64, opts BuildOptions) (*Report, erro
 		r.Conductors = append(r.Conductors, rc)
 	}
 	r.Regions = b.regionPeaks(opts.Background)
-	r.Convergence = convergence(opts.Convergence)
+	r.Convergence = convergence(opts.Convergence, opts.Background)
 	for n, p := range opts.Probes {
 		pr, err := b.probe(n, p)
 		if err != nil {
@@ -377,7 +378,9 @@ func (r *Report) ShowsField() bool {
 }
 
 // convergence copies a study into the report's form.
-func convergence(c *field.Convergence) *Convergence {
+// convergence copies a study into the report, naming the background by
+// its material when bg is set.
+func convergence(c *field.Convergence, bg string) *Convergence {
 	if c == nil {
 		return nil
 	}
@@ -386,8 +389,12 @@ func convergence(c *field.Convergence) *Convergence {
 		out.Levels = append(out.Levels, Level{Nodes: l.Nodes, Cells: l.Cells, H: l.H})
 	}
 	for _, e := range c.Estimates {
+		name := e.Name
+		if bg != "" {
+			name = strings.Replace(name, "(background)", "("+bg+")", 1)
+		}
 		re := Estimate{
-			Quantity: e.Name, Unit: e.Unit, Values: append([]float64{}, e.Values...),
+			Quantity: name, Unit: e.Unit, Values: append([]float64{}, e.Values...),
 			Order: e.Order, Extrapolated: e.Extrapolated, Band: e.Band, Note: e.Note,
 		}
 		if len(e.Values) > 0 {
