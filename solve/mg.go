@@ -216,8 +216,14 @@ func (m *Multigrid) vcycle(l int, x, b []float64, zero bool) {
 		lv.restrict(cb, r)
 	}
 	m.vcycle(l+1, cx, cb, true)
-	lv.prolong(x, cx)
-	for s := 0; s < m.nu; s++ {
+	s := 0
+	if l == 0 && m.fine.smoother == PointGS {
+		m.fine.prolongSmooth(x, b, cx)
+		s = 1
+	} else {
+		lv.prolong(x, cx)
+	}
+	for ; s < m.nu; s++ {
 		lv.smooth(x, b, false, true)
 	}
 }

@@ -29,6 +29,7 @@ type fineLevel struct {
 	zero                  bool
 
 	smoothFn, edgeFn, restrictFn, prolongFn, lineFn, redFn func(lo, hi int)
+	postFn, postEdgeFn, postRedFn                          func(lo, hi int)
 	// redBuf is the per-block row scratch of restrictRed.
 	redBuf []float64
 }
@@ -41,6 +42,9 @@ func newFineLevel(sys *System, k *kernels) *fineLevel {
 	f.prolongFn = f.prolongBlocks
 	f.lineFn = f.lineBlocks
 	f.redFn = f.redBlocks
+	f.postFn = f.postBlocks
+	f.postEdgeFn = f.postEdgeBlocks
+	f.postRedFn = f.postRedBlocks
 	return f
 }
 

@@ -161,3 +161,97 @@ func yEdgeT(ax, inv, cr []float64, i, nx, I int) float64 {
 	}
 	return t
 }
+
+// prolongSmooth adds the interpolated correction xc to x and relaxes
+// backward (black, then red) in one pass over memory, for red-black
+// relaxation: the same result as prolong followed by smooth(post), bit for
+// bit. The correction is added only at the red nodes, because the black
+// half-sweep that follows overwrites the black ones without reading them.
+//
+// A block corrects row j, relaxes black on row j−1 and red on row j−2;
+// the black rows at its edges need the neighbouring blocks' corrections
+// and follow in a second pass, the red rows next to those in a third.
+func (f *fineLevel) prolongSmooth(x, b, xc []float64) {
+	f.opX, f.opB, f.cx = x, b, xc
+	f.run(f.k.blocks, f.postFn)
+	f.run(f.k.blocks, f.postEdgeFn)
+	f.run(f.k.blocks, f.postRedFn)
+}
+
+func (f *fineLevel) postBlocks(lo, hi int) {
+	for blk := lo; blk < hi; blk++ {
+		j0, j1 := f.k.rows(blk)
+		for j := j0; j < j1; j++ {
+			f.prolongRedRow(j)
+			if k := j - 1; k >= j0+1 {
+				f.relaxRow(k, 1)
+			}
+			if k := j - 2; k >= j0+2 {
+				f.relaxRow(k, 0)
+			}
+		}
+	}
+}
+
+func (f *fineLevel) postEdgeBlocks(lo, hi int) {
+	for blk := lo; blk < hi; blk++ {
+		j0, j1 := f.k.rows(blk)
+		if j1 > j0 {
+			f.relaxRow(j0, 1)
+		}
+		if j1-1 > j0 {
+			f.relaxRow(j1-1, 1)
+		}
+	}
+}
+
+func (f *fineLevel) postRedBlocks(lo, hi int) {
+	for blk := lo; blk < hi; blk++ {
+		j0, j1 := f.k.rows(blk)
+		for k := j0; k < j1; k++ {
+			// Rows j0+2 … j1−3 were relaxed in the first pass.
+			if k < j0+2 || k > j1-3 {
+				f.relaxRow(k, 0)
+			}
+		}
+	}
+}
+
+// prolongRedRow adds the interpolated correction at the red nodes of row
+// j: the coarse points of an even row, the cell centres of an odd one.
+func (f *fineLevel) prolongRedRow(j int) {
+	s := f.sys
+	nx, ny, ncx := f.nx, f.ny, f.ncx
+	x, xc, inv := f.opX, f.cx, f.k.invDiag
+	ax, ay, ix, iy := s.AX, s.AY, f.ix, f.iy
+	cst := ncx + 2
+	if j&1 == 0 {
+		J := j / 2
+		c0, q0 := (J+1)*cst+1, j*nx
+		for I, v := range xc[c0 : c0+ncx] {
+			x[q0+2*I] += v
+		}
+		return
+	}
+	J := (j - 1) / 2
+	q0, k0, c0 := (j-1)*nx, ncx*J, (J+1)*cst+1
+	hasNN := j+1 < ny
+	uw := (ay[q0]*xc[c0] + ay[q0+nx]*xc[c0+cst]) * iy[k0]
+	for I := 0; 2*I+1 < nx; I++ {
+		q, cn, k := q0+2*I, c0+I, k0+I
+		v, ve := xc[cn], xc[cn+1]
+		us := (ax[q]*v + ax[q+1]*ve) * ix[k]
+		var ue, un float64
+		if 2*I+2 < nx {
+			ue = (ay[q+2]*ve + ay[q+2+nx]*xc[cn+cst+1]) * iy[k+1]
+		}
+		if hasNN {
+			qn := q + 2*nx
+			un = (ax[qn]*xc[cn+cst] + ax[qn+1]*xc[cn+cst+1]) * ix[k+ncx]
+		}
+		e := q + nx
+		m := e + 1
+		x[m] += (ax[e]*uw + ax[m]*ue + ay[m-nx]*us + ay[m]*un) * inv[m]
+		uw = ue
+	}
+}

@@ -231,6 +231,31 @@ func TestRestrictRedMatchesGeneral(t *testing.T) {
 	}
 }
 
+func TestProlongSmoothMatchesSeparate(t *testing.T) {
+	for _, c := range mgCases {
+		for _, n := range []int{33, 34} {
+			s := c.build(t, n)
+			for _, w := range []int{1, 3} {
+				m := newMultigrid(s, newKernels(s, w), Settings{Tol: 1e-8, MaxIter: 10})
+				f, c1 := m.fine, m.cs[0]
+				f.smoother = PointGS
+				b := pseudo(f, s.Len(), 0.6)
+				xc := pseudo(c1, len(c1.x), 0.4)
+				want, got := pseudo(f, s.Len(), 0.1), pseudo(f, s.Len(), 0.1)
+				f.prolong(want, xc)
+				f.smooth(want, b, false, true)
+				f.prolongSmooth(got, b, xc)
+				for i := range want {
+					if want[i] != got[i] {
+						t.Fatalf("%s %d workers %d: node %d: %g vs %g", c.name, n, w, i, got[i], want[i])
+					}
+				}
+				m.Close()
+			}
+		}
+	}
+}
+
 // TestSmoothersMatchColourSweeps checks the one-pass relaxations against
 // plain colour-by-colour sweeps, bit for bit, with several blockings.
 func TestSmoothersMatchColourSweeps(t *testing.T) {
