@@ -662,7 +662,7 @@ func (d *decoder) references(*rawFile) error {
 func (d *decoder) grid(raw *rawFile) error {
 	g := raw.Grid
 	dom := d.p.Domain
-	mesh := bc.Mesh{Cell: math.Max(dom.X1-dom.X0, dom.Y1-dom.Y0) / DefaultCells, Refine: 4, Ratio: 1.2, MaxNodes: bc.DefaultMaxNodes}
+	mesh := bc.Mesh{Cell: math.Max(dom.X1-dom.X0, dom.Y1-dom.Y0) / DefaultCells, Refine: 4, Ratio: 1.2, Gap: 4, Corner: 2, MaxNodes: bc.DefaultMaxNodes}
 	if d.ix.has("grid.cell") {
 		if !(g.Cell > 0) || math.IsInf(g.Cell, 0) {
 			return d.errAt("grid.cell", "the target cell size must be a finite number > 0, got %g %s", g.Cell, d.lunit.Name)
@@ -681,6 +681,18 @@ func (d *decoder) grid(raw *rawFile) error {
 		}
 		mesh.Ratio = g.Ratio
 	}
+	if d.ix.has("grid.gap") {
+		if g.Gap != math.Trunc(g.Gap) || !(g.Gap >= 1 && g.Gap <= 1000) {
+			return d.errAt("grid.gap", "gap is the smallest number of cells across a thin gap and must be a whole number from 1 to 1000, got %g", g.Gap)
+		}
+		mesh.Gap = int(g.Gap)
+	}
+	if d.ix.has("grid.corner") {
+		if !(g.Corner >= 1) || g.Corner > 1e6 {
+			return d.errAt("grid.corner", "corner divides the cell size once more at conductor corners and strip ends and must be ≥ 1 (1 turns it off), got %g", g.Corner)
+		}
+		mesh.Corner = g.Corner
+	}
 	if d.ix.has("grid.max_nodes") {
 		n, err := d.whole("grid.max_nodes", g.MaxNodes, 4, math.MaxInt32)
 		if err != nil {
@@ -693,7 +705,7 @@ func (d *decoder) grid(raw *rawFile) error {
 	if d.ix.has("grid.cell") {
 		key = "grid.cell"
 	}
-	if est := estimateNodes(d.p, mesh); !(est <= float64(mesh.MaxNodes)) {
+	if est := bc.EstimateNodes(d.p, mesh); !(est <= float64(mesh.MaxNodes)) {
 		e := d.errAt(key, "the grid would need about %.3g nodes (cell %s, refine %g, ratio %g), more than the cap of %d nodes; make [grid] cell larger, refine smaller or ratio larger",
 			est, d.length(mesh.Cell), mesh.Refine, mesh.Ratio, mesh.MaxNodes)
 		need := math.Ceil(est * 1.1)
@@ -721,23 +733,6 @@ func (d *decoder) grid(raw *rawFile) error {
 			gr.Nx(), gr.Ny(), n, bytesString(float64(n)*BytesPerNode), BytesPerNode, bytesString(float64(total)))
 	}
 	return nil
-}
-
-// estimateNodes returns the larger of bc.EstimateNodes and an estimate
-// that takes the growth ratio into account: each geometry feature adds the
-// log(refine)/log(ratio) cells of the grading from the fine to the coarse
-// size, and no axis has more cells than at the fine size everywhere (plus
-// the features). At the default ratio 1.2 the two estimates agree; a ratio
-// close to 1 makes the gradings, and the grid, much larger.
-func estimateNodes(p *bc.Problem, m bc.Mesh) float64 {
-	fx, fy := p.Features()
-	d := p.Domain
-	grade := math.Log(m.Refine) / math.Log(m.Ratio)
-	axis := func(l float64, nf int) float64 {
-		n := l/m.Cell + 1 + float64(nf)*grade
-		return math.Min(n, l/(m.Cell/m.Refine)+1+float64(nf))
-	}
-	return math.Max(bc.EstimateNodes(p, m), axis(d.X1-d.X0, len(fx))*axis(d.Y1-d.Y0, len(fy)))
 }
 
 // solver reads [solver].

@@ -125,6 +125,8 @@
 //	cell = 0.25                # target cell size away from edges
 //	refine = 8                 # cells of 0.25/8 mm at edges
 //	ratio = 1.2                # growth between neighbouring cells
+//	gap = 6                    # cells across the thinnest gap (board and trace)
+//	corner = 3                 # cells of 0.25/(8·3) mm at conductor corners
 //	max_nodes = 2_000_000
 //
 //	[solver]
@@ -307,14 +309,23 @@
 // # [grid]
 //
 // Controls the automatic graded grid (bc.AutoGrid): cells of cell/refine
-// at every geometry edge, growing by at most ratio between neighbours to
-// cell away from them.
+// at every geometry edge, cell/(refine·corner) at conductor corners, at
+// least gap cells across every thin gap, growing by at most ratio between
+// neighbours to cell away from them (and beyond cell toward open sides).
 //
 //	cell       number  target cell size in the length unit (default: the longer
-//	                   domain side / 100)
+//	                   side of the domain as written / 100)
 //	refine     number  ≥ 1, cell size divisor at edges (default 4; 1 = uniform)
 //	ratio      number  in (1, 2], growth between neighbouring cells (default 1.2)
+//	gap        number  whole, 1 to 1000: the fewest cells across a thin gap —
+//	                   between two shapes facing each other, between a shape
+//	                   and a fixed side, across a dielectric layer (default 4)
+//	corner     number  ≥ 1, extra divisor at conductor corners and strip ends,
+//	                   where the field is singular (default 2; 1 = off)
 //	max_nodes  number  whole; node cap (default 4097² = 16 785 409)
+//
+// Raise gap when a thin insulation layer or a narrow slot decides the
+// result: its field is only as good as the cells across it.
 //
 // # [solver]
 //

@@ -1,8 +1,10 @@
 package model
 
 import (
+	"errors"
 	"math"
 	"os"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -250,7 +252,7 @@ func TestParseSettings(t *testing.T) {
 	want := got
 	want.Unit = Unit{"mm", 1e-3}
 	want.PotentialUnit = Unit{"V", 1}
-	want.Mesh = bc.Mesh{Cell: 0.01 / DefaultCells, Refine: 4, Ratio: 1.2, MaxNodes: bc.DefaultMaxNodes}
+	want.Mesh = bc.Mesh{Cell: 0.01 / DefaultCells, Refine: 4, Ratio: 1.2, Gap: 4, Corner: 2, MaxNodes: bc.DefaultMaxNodes}
 	want.Solver = Solver{Method: "mg-pcg", Tol: 1e-10}
 	want.Outputs = Outputs{Report: true}
 	if diff := cmp.Diff(want, got, approx, cmpopts.EquateEmpty()); diff != "" {
@@ -280,7 +282,7 @@ func TestParseFull(t *testing.T) {
 	if diff := cmp.Diff(wantOut, m.Outputs, approx, cmpopts.EquateEmpty()); diff != "" {
 		t.Errorf("outputs (-want +got):\n%s", diff)
 	}
-	wantMesh := bc.Mesh{Cell: 0.25e-3, Refine: 8, Ratio: 1.2, MaxNodes: 2000000}
+	wantMesh := bc.Mesh{Cell: 0.25e-3, Refine: 8, Ratio: 1.2, Gap: 6, Corner: 3, MaxNodes: 2000000}
 	if diff := cmp.Diff(wantMesh, m.Mesh, approx); diff != "" {
 		t.Errorf("mesh (-want +got):\n%s", diff)
 	}
@@ -522,5 +524,40 @@ z = 3
 	}
 	if ix.has("arr[3]") || !ix.has("arr[2].list") {
 		t.Error("has reports arrays wrongly")
+	}
+}
+
+// TestNodeCapExact checks that the node cap is tested against the grid
+// that will be built, not an overestimate: a cap of exactly the grid's
+// node count passes and one node less fails.
+func TestNodeCapExact(t *testing.T) {
+	src, err := os.ReadFile("testdata/full.toml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, ratio := range []string{"1.05", "1.2", "1.5"} {
+		s := strings.Replace(string(src), "ratio = 1.2 ", "ratio = "+ratio+" ", 1)
+		if !strings.Contains(s, "ratio = "+ratio+" ") || !strings.Contains(s, "max_nodes = 2_000_000") {
+			t.Fatal("testdata/full.toml no longer has the [grid] lines this test edits")
+		}
+		m, err := Parse("full.toml", []byte(s))
+		if err != nil {
+			t.Fatal(err)
+		}
+		g, err := m.Grid()
+		if err != nil {
+			t.Fatal(err)
+		}
+		n := g.Len()
+		for _, tt := range []struct {
+			cap int
+			ok  bool
+		}{{n, true}, {n - 1, false}} {
+			capped := strings.Replace(s, "max_nodes = 2_000_000", "max_nodes = "+strconv.Itoa(tt.cap), 1)
+			_, err := Parse("full.toml", []byte(capped))
+			if (err == nil) != tt.ok || err != nil && !errors.Is(err, bc.ErrTooLarge) {
+				t.Errorf("ratio %s: grid of %d nodes with max_nodes = %d: %v", ratio, n, tt.cap, err)
+			}
+		}
 	}
 }

@@ -7,7 +7,7 @@ package model
 // the manual for them: keep the two in step.
 //
 // Numbers are float64 even where a count is meant (max_nodes, samples), so
-// that 2e6 and 2_000_000 are both accepted; the decoder checks that they are
+// that 2e6 and 2_000_000 are both accepted (and gap = 4.0 too); the decoder checks that they are
 // whole.
 
 type rawFile struct {
@@ -110,6 +110,8 @@ type rawGrid struct {
 	Cell     float64 `toml:"cell"`
 	Refine   float64 `toml:"refine"`
 	Ratio    float64 `toml:"ratio"`
+	Gap      float64 `toml:"gap"`
+	Corner   float64 `toml:"corner"`
 	MaxNodes float64 `toml:"max_nodes"`
 }
 
