@@ -339,11 +339,11 @@ func TestLineRelaxationSolvesLines(t *testing.T) {
 			case *fineLevel:
 				l.smoother, l.opX, l.opB = sm, x, b
 				l.lineAxis, l.color = int(sm-LineX), 1
-				l.run(map[Smoother]int{LineX: l.k.blocks, LineY: min(64, nx)}[sm], l.lineFn)
+				l.run(map[Smoother]int{LineX: l.k.blocks, LineY: columnBlocks(nx)}[sm], l.lineFn)
 			case *coarseLevel:
 				l.smoother, l.opX, l.opB = sm, x, b
 				l.lineAxis, l.color = int(sm-LineX), 1
-				l.run(map[Smoother]int{LineX: l.blocks, LineY: min(64, nx)}[sm], l.lineFn)
+				l.run(map[Smoother]int{LineX: l.blocks, LineY: columnBlocks(nx)}[sm], l.lineFn)
 			}
 			lv.residual(r, x, b)
 			for j := 0; j < ny; j++ {

@@ -85,6 +85,12 @@ func (f *fineLevel) chooseSmoother() Smoother {
 	return PointGS
 }
 
+// columnBlocks is the number of column blocks of Y-line relaxation on a
+// level nx nodes wide. Y lines advance row by row through all the columns
+// of a block at once; blocks at least 256 columns wide keep every row's
+// access long enough for the memory system to stream it.
+func columnBlocks(nx int) int { return max(1, min(64, nx/256)) }
+
 // lineSteps lists the zebra half-steps of a line smoother, forward: the
 // axis (0 for X lines, 1 for Y lines) and the parity of the lines.
 func lineSteps(s Smoother) [][2]int {
@@ -126,7 +132,7 @@ func (f *fineLevel) smoothLines(post bool) {
 		if st[0] == 0 {
 			f.run(f.k.blocks, f.lineFn)
 		} else {
-			f.run(min(64, f.nx), f.lineFn)
+			f.run(columnBlocks(f.nx), f.lineFn)
 		}
 	}
 }
@@ -142,42 +148,21 @@ func (f *fineLevel) lineBlocks(lo, hi int) {
 	if f.lineAxis == 0 {
 		for blk := lo; blk < hi; blk++ {
 			j0, j1 := f.k.rows(blk)
-			for j := j0; j < j1; j++ {
-				if j&1 != f.color {
-					continue
-				}
-				o := j * nx
-				prevC, prevX := 0.0, 0.0
-				for i := 0; i < nx; i++ {
-					n := o + i
-					rhs := b[n]
-					if j > 0 {
-						rhs += ay[n-nx] * x[n-nx]
-					}
-					if j+1 < ny {
-						rhs += ay[n] * x[n+nx]
-					}
-					var sub, sup float64
-					if i > 0 {
-						sub = -ax[n-1]
-					}
-					if i+1 < nx {
-						sup = -ax[n]
-					}
-					inv := 1 / (d[n] - sub*prevC)
-					prevC = sup * inv
-					prevX = (rhs - sub*prevX) * inv
-					cp[n], x[n] = prevC, prevX
-				}
-				for i := nx - 2; i >= 0; i-- {
-					n := o + i
-					x[n] -= cp[n] * x[n+1]
-				}
+			j := j0
+			if j&1 != f.color {
+				j++
+			}
+			// Two lines at a time, so that the two recurrences overlap.
+			for ; j+2 < j1; j += 4 {
+				f.xLinePair(j, j+2)
+			}
+			if j < j1 {
+				f.xLinePair(j, -1)
 			}
 		}
 		return
 	}
-	blocks := min(64, nx)
+	blocks := columnBlocks(nx)
 	for blk := lo; blk < hi; blk++ {
 		i0, i1 := blk*nx/blocks, (blk+1)*nx/blocks
 		if i0&1 != f.color {
@@ -229,7 +214,7 @@ func (l *coarseLevel) smoothLines(post bool) {
 		if st[0] == 0 {
 			l.run(l.blocks, l.lineFn)
 		} else {
-			l.run(min(64, l.nx), l.lineFn)
+			l.run(columnBlocks(l.nx), l.lineFn)
 		}
 	}
 }
@@ -242,31 +227,20 @@ func (l *coarseLevel) lineBlocks(lo, hi int) {
 	if l.lineAxis == 0 {
 		for blk := lo; blk < hi; blk++ {
 			j0, j1 := l.rows(blk)
-			for j := j0; j < j1; j++ {
-				if j&1 != l.color {
-					continue
-				}
-				o := (j+1)*st + 1
-				prevC, prevX := 0.0, 0.0
-				for i := 0; i < nx; i++ {
-					n := o + i
-					rhs := b[n] - s[n]*x[n-st] - s[n+st]*x[n+st] -
-						sw[n]*x[n-st-1] - se[n]*x[n-st+1] - sw[n+st+1]*x[n+st+1] - se[n+st-1]*x[n+st-1]
-					sub := w[n]
-					inv := 1 / (c[n] - sub*prevC)
-					prevC = w[n+1] * inv
-					prevX = (rhs - sub*prevX) * inv
-					cp[n], x[n] = prevC, prevX
-				}
-				for i := nx - 2; i >= 0; i-- {
-					n := o + i
-					x[n] -= cp[n] * x[n+1]
-				}
+			j := j0
+			if j&1 != l.color {
+				j++
+			}
+			for ; j+2 < j1; j += 4 {
+				l.xLinePair(j, j+2)
+			}
+			if j < j1 {
+				l.xLinePair(j, -1)
 			}
 		}
 		return
 	}
-	blocks := min(64, nx)
+	blocks := columnBlocks(nx)
 	for blk := lo; blk < hi; blk++ {
 		i0, i1 := blk*nx/blocks, (blk+1)*nx/blocks
 		if i0&1 != l.color {
@@ -292,5 +266,115 @@ func (l *coarseLevel) lineBlocks(lo, hi int) {
 				x[n] -= cp[n] * x[n+st]
 			}
 		}
+	}
+}
+
+// xLinePair solves the X lines ja and jb (jb < 0: ja alone) of the finest
+// level by the Thomas algorithm, the two recurrences interleaved. Fixed
+// nodes have no couplings and come out as x = b.
+func (f *fineLevel) xLinePair(ja, jb int) {
+	s := f.sys
+	nx, ny := f.nx, f.ny
+	x, b, cp := f.opX, f.opB, f.r
+	ax, ay, d := s.AX, s.AY, s.Diag
+	rhs := func(n, j int) float64 {
+		v := b[n]
+		if j > 0 {
+			v += ay[n-nx] * x[n-nx]
+		}
+		if j+1 < ny {
+			v += ay[n] * x[n+nx]
+		}
+		return v
+	}
+	oa := ja * nx
+	if jb < 0 {
+		pc, px := 0.0, 0.0
+		for i := 0; i < nx; i++ {
+			n := oa + i
+			var sub, sup float64
+			if i > 0 {
+				sub = -ax[n-1]
+			}
+			if i+1 < nx {
+				sup = -ax[n]
+			}
+			inv := 1 / (d[n] - sub*pc)
+			pc = sup * inv
+			px = (rhs(n, ja) - sub*px) * inv
+			cp[n], x[n] = pc, px
+		}
+		for n := oa + nx - 2; n >= oa; n-- {
+			x[n] -= cp[n] * x[n+1]
+		}
+		return
+	}
+	ob := jb * nx
+	pa, xa, pb, xb := 0.0, 0.0, 0.0, 0.0
+	for i := 0; i < nx; i++ {
+		na, nb := oa+i, ob+i
+		var suba, supa, subb, supb float64
+		if i > 0 {
+			suba, subb = -ax[na-1], -ax[nb-1]
+		}
+		if i+1 < nx {
+			supa, supb = -ax[na], -ax[nb]
+		}
+		inva := 1 / (d[na] - suba*pa)
+		invb := 1 / (d[nb] - subb*pb)
+		pa, pb = supa*inva, supb*invb
+		xa = (rhs(na, ja) - suba*xa) * inva
+		xb = (rhs(nb, jb) - subb*xb) * invb
+		cp[na], x[na], cp[nb], x[nb] = pa, xa, pb, xb
+	}
+	for i := nx - 2; i >= 0; i-- {
+		na, nb := oa+i, ob+i
+		x[na] -= cp[na] * x[na+1]
+		x[nb] -= cp[nb] * x[nb+1]
+	}
+}
+
+// xLinePair solves the X lines ja and jb (jb < 0: ja alone) of a
+// nine-point level, the two recurrences interleaved.
+func (l *coarseLevel) xLinePair(ja, jb int) {
+	st := l.st
+	x, b, cp := l.opX, l.opB, l.r
+	c, w, s, sw, se := l.c, l.w, l.s, l.sw, l.se
+	nx := l.nx
+	rhs := func(n int) float64 {
+		return b[n] - s[n]*x[n-st] - s[n+st]*x[n+st] -
+			sw[n]*x[n-st-1] - se[n]*x[n-st+1] - sw[n+st+1]*x[n+st+1] - se[n+st-1]*x[n+st-1]
+	}
+	oa := (ja+1)*st + 1
+	if jb < 0 {
+		pc, px := 0.0, 0.0
+		for n := oa; n < oa+nx; n++ {
+			sub := w[n]
+			inv := 1 / (c[n] - sub*pc)
+			pc = w[n+1] * inv
+			px = (rhs(n) - sub*px) * inv
+			cp[n], x[n] = pc, px
+		}
+		for n := oa + nx - 2; n >= oa; n-- {
+			x[n] -= cp[n] * x[n+1]
+		}
+		return
+	}
+	ob := (jb+1)*st + 1
+	pa, xa, pb, xb := 0.0, 0.0, 0.0, 0.0
+	for i := 0; i < nx; i++ {
+		na, nb := oa+i, ob+i
+		suba, subb := w[na], w[nb]
+		inva := 1 / (c[na] - suba*pa)
+		invb := 1 / (c[nb] - subb*pb)
+		pa, pb = w[na+1]*inva, w[nb+1]*invb
+		xa = (rhs(na) - suba*xa) * inva
+		xb = (rhs(nb) - subb*xb) * invb
+		cp[na], x[na], cp[nb], x[nb] = pa, xa, pb, xb
+	}
+	for i := nx - 2; i >= 0; i-- {
+		na, nb := oa+i, ob+i
+		x[na] -= cp[na] * x[na+1]
+		x[nb] -= cp[nb] * x[nb+1]
 	}
 }
