@@ -361,7 +361,7 @@ func (d *decoder) absent(table, what string, keys ...string) error {
 	return nil
 }
 
-var shapeKeys = []string{"rect", "circle", "annulus", "polygon", "strip"}
+var shapeKeys = []string{"rect", "circle", "ellipse", "annulus", "polygon", "strip"}
 
 // shape reads the one shape of a region.
 func (d *decoder) shape(key string, r *rawRegion) (bc.Shape, error) {
@@ -372,7 +372,7 @@ func (d *decoder) shape(key string, r *rawRegion) (bc.Shape, error) {
 		}
 	}
 	if len(given) == 0 {
-		return nil, d.missing(key, "circle", "a region needs one shape: rect, circle, annulus, polygon or strip")
+		return nil, d.missing(key, "circle", "a region needs one shape: rect, circle, ellipse, annulus, polygon or strip")
 	}
 	if len(given) > 1 {
 		return nil, d.schemaAt(join(key, given[1]), "a region has one shape, but this one has both %s and %s; split it into two regions", given[0], given[1])
@@ -425,6 +425,27 @@ func (d *decoder) shape(key string, r *rawRegion) (bc.Shape, error) {
 			return nil, d.errAt(join(sk, "radius"), "the radius must be a finite number > 0, got %g %s", s.Radius, u)
 		}
 		return bc.Circle{X: x, Y: y, R: s.Radius * d.lunit.Scale}, nil
+	case "ellipse":
+		s := r.Ellipse
+		if err := need("center", "the centre [x, y] in "+u); err != nil {
+			return nil, err
+		}
+		if err := need("semi_axes", "the semi-axes [a, b] in "+u+", a along x and b along y"); err != nil {
+			return nil, err
+		}
+		x, y, err := d.point(join(sk, "center"), s.Center)
+		if err != nil {
+			return nil, err
+		}
+		ak := join(sk, "semi_axes")
+		if len(s.SemiAxes) != 2 {
+			return nil, d.schemaAt(ak, "expected the semi-axes [a, b] as two numbers in %s (a along x, b along y), got %d numbers", u, len(s.SemiAxes))
+		}
+		a, b := s.SemiAxes[0], s.SemiAxes[1]
+		if !(a > 0) || !(b > 0) || math.IsInf(a, 0) || math.IsInf(b, 0) {
+			return nil, d.errAt(ak, "the semi-axes [a, b] must be finite numbers > 0 (half the width along x and half the height along y), got [%g, %g] %s", a, b, u)
+		}
+		return bc.Ellipse{X: x, Y: y, A: a * d.lunit.Scale, B: b * d.lunit.Scale}, nil
 	case "annulus":
 		s := r.Annulus
 		if err := need("center", "the centre [x, y] in "+u); err != nil {
@@ -500,21 +521,24 @@ func (d *decoder) placed(key string, s bc.Shape) error {
 	x0, y0, x1, y1 := s.Bounds()
 	dom := d.p.Domain
 	if d.p.Metric == grid.Axisymmetric {
-		// The rule of bc.Problem.Validate: a circle or annulus needs its
-		// centre at r ≥ 0 (centred on the axis it is a sphere or a
-		// spherical shell), a strip its centre line, any other shape all
-		// of itself.
+		// The rule of bc.Problem.Validate: a circle, ellipse or annulus
+		// needs its centre at r ≥ 0 (centred on the axis it is a sphere,
+		// a spheroid or a spherical shell), a strip its centre line, any
+		// other shape all of itself.
 		tol := -1e-12 * (dom.X1 - dom.X0)
 		switch c := s.(type) {
-		case bc.Circle, bc.Annulus:
-			cx := 0.0
-			if a, ok := c.(bc.Annulus); ok {
-				cx = a.X
-			} else {
-				cx = c.(bc.Circle).X
+		case bc.Circle, bc.Ellipse, bc.Annulus:
+			var cx float64
+			switch c := c.(type) {
+			case bc.Circle:
+				cx = c.X
+			case bc.Ellipse:
+				cx = c.X
+			case bc.Annulus:
+				cx = c.X
 			}
 			if cx < tol {
-				return d.errAt(key, "the shape is centred at r = %s < 0; in an axisymmetric model x is the radius, so a circle or annulus must be centred at r ≥ 0 (on the axis it is a sphere)", d.length(cx))
+				return d.errAt(key, "the shape is centred at r = %s < 0; in an axisymmetric model x is the radius, so a circle, ellipse or annulus must be centred at r ≥ 0 (on the axis it is a sphere or a spheroid)", d.length(cx))
 			}
 		case bc.Strip:
 			if r0 := math.Min(c.X0, c.X1); r0 < tol {

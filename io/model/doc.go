@@ -209,9 +209,10 @@
 // metre of depth. In an axisymmetric domain x is the radius r and y the
 // axial coordinate z; the domain must lie at r ≥ 0 and usually starts at
 // the axis, x0 = 0. Shapes are drawn in the r–z half-plane only: a rect or
-// polygon must lie at r ≥ 0, a strip's centre line too, and a circle or
-// annulus must be centred at r ≥ 0 (centred on the axis it is a sphere or
-// spherical shell; what falls at r < 0 is ignored).
+// polygon must lie at r ≥ 0, a strip's centre line too, and a circle,
+// ellipse or annulus must be centred at r ≥ 0 (centred on the axis it is a
+// sphere, a spheroid or a spherical shell; what falls at r < 0 is
+// ignored).
 //
 // # [materials]
 //
@@ -253,18 +254,22 @@
 //
 //	rect     = { x = [x0, x1], y = [y0, y1] }
 //	circle   = { center = [x, y], radius = r }
+//	ellipse  = { center = [x, y], semi_axes = [a, b] }
 //	annulus  = { center = [x, y], inner_radius = r0, outer_radius = r1 }
 //	polygon  = { points = [[x, y], [x, y], [x, y], ...] }
 //	strip    = { from = [x, y], to = [x, y], thickness = t }
 //
-// A rect may have zero width or height. An annulus (ring) needs
+// A rect may have zero width or height. An ellipse has the semi-axis a
+// along x and b along y, both > 0. An annulus (ring) needs
 // 0 ≤ inner_radius < outer_radius. A polygon needs at least three vertices
 // and no crossing edges; the closing edge is implied. A strip is a straight
 // band about its centre line, such as a board trace or a thin plate; its
 // thickness defaults to 0, and a conductor strip thinner than a cell still
 // claims every grid node its centre line passes. In an axisymmetric model a
 // circle off the axis is a torus (a grading ring), one centred on the axis
-// a sphere, and a rect touching the axis a solid cylinder.
+// a sphere, an ellipse centred on the axis a spheroid (prolate when b > a,
+// as a rounded tip; oblate when b < a, as a disk with a rounded rim), and a
+// rect touching the axis a solid cylinder.
 //
 // # Region order
 //

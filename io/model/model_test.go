@@ -109,6 +109,44 @@ y = [2, 3]
 			},
 		},
 		{
+			name:   "ellipses",
+			reason: "an ellipse converts centre and semi-axes to SI, a along x and b along y; centred on the axis of an r–z model it is a spheroid, and an ellipse reaching r < 0 is allowed when its centre is at r ≥ 0",
+			src: `
+[units]
+length = "cm"
+[domain]
+kind = "axisymmetric"
+x = [0, 5]
+y = [-5, 5]
+[[conductor]]
+name = "tip"
+potential = 1
+[[region]]
+kind = "conductor"
+conductor = "tip"
+ellipse = { center = [0, 1], semi_axes = [0.5, 2] }
+[[region]]
+name = "bead"
+kind = "dielectric"
+eps_r = 3
+[region.ellipse]
+center = [3, -2]
+semi_axes = [1, 0.25]
+[boundary]
+right = { kind = "fixed", potential = 0 }
+`,
+			want: func() *bc.Problem {
+				p := &bc.Problem{Metric: grid.Axisymmetric, Domain: bc.Rect{X0: 0, Y0: -0.05, X1: 0.05, Y1: 0.05}, Background: 1}
+				p.Conductors = []bc.Conductor{{Name: "tip", Potential: 1}}
+				p.Regions = []bc.Region{
+					{Kind: bc.ConductorRegion, Conductor: "tip", Shape: bc.Ellipse{X: 0, Y: 0.01, A: 0.005, B: 0.02}},
+					{Name: "bead", Kind: bc.Dielectric, EpsR: 3, Shape: bc.Ellipse{X: 0.03, Y: -0.02, A: 0.01, B: 0.0025}},
+				}
+				p.Sides[bc.Right] = bc.Side{Kind: bc.Fixed, Potential: 0}
+				return p
+			},
+		},
+		{
 			name:   "kilovolts and a floating conductor",
 			reason: "potentials scale by the potential unit; a floating conductor keeps its charge in SI",
 			src: `

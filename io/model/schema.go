@@ -56,6 +56,7 @@ type rawRegion struct {
 
 	Rect    *rawRect    `toml:"rect"`
 	Circle  *rawCircle  `toml:"circle"`
+	Ellipse *rawEllipse `toml:"ellipse"`
 	Annulus *rawAnnulus `toml:"annulus"`
 	Polygon *rawPolygon `toml:"polygon"`
 	Strip   *rawStrip   `toml:"strip"`
@@ -69,6 +70,11 @@ type rawRect struct {
 type rawCircle struct {
 	Center []float64 `toml:"center"`
 	Radius float64   `toml:"radius"`
+}
+
+type rawEllipse struct {
+	Center   []float64 `toml:"center"`
+	SemiAxes []float64 `toml:"semi_axes"`
 }
 
 type rawAnnulus struct {
