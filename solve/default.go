@@ -1,6 +1,9 @@
 package solve
 
-import "time"
+import (
+	"context"
+	"time"
+)
 
 // mgcgSolver is conjugate gradients preconditioned by one multigrid
 // V-cycle: the default solver.
@@ -24,6 +27,35 @@ func newDefault(sys *System, set Settings) (Solver, error) {
 	c.precond = mg.Precondition
 	c.setup = time.Since(start)
 	return &mgcgSolver{cgSolver: c, mg: mg}, nil
+}
+
+// Solve implements Solver. A start vector that is zero on every free node
+// is replaced by a full-multigrid approximation first (Multigrid.FMG),
+// which costs about one and a half V-cycles and saves two to three
+// iterations; the result's Elapsed includes it.
+func (s *mgcgSolver) Solve(ctx context.Context, b, x []float64) (*Result, error) {
+	if len(b) != s.sys.Len() || len(x) != s.sys.Len() {
+		panic("solve: right-hand side or start vector has the wrong length")
+	}
+	start := time.Now()
+	if zeroOnFree(s.sys, x) && ctx.Err() == nil {
+		s.mg.FMG(b, x)
+	}
+	res, err := s.cgSolver.Solve(ctx, b, x)
+	if res != nil {
+		res.Elapsed = time.Since(start)
+	}
+	return res, err
+}
+
+// zeroOnFree reports whether x is zero on every free node.
+func zeroOnFree(sys *System, x []float64) bool {
+	for i, f := range sys.Fixed {
+		if !f && x[i] != 0 {
+			return false
+		}
+	}
+	return true
 }
 
 // Close implements Solver.

@@ -323,14 +323,7 @@ func (m *Multigrid) Solve(ctx context.Context, b, x []float64) (*Result, error) 
 		res.Elapsed = time.Since(start)
 		return res, nil
 	}
-	zeroStart := true
-	for i, f := range sys.Fixed {
-		if !f && x[i] != 0 {
-			zeroStart = false
-			break
-		}
-	}
-	if zeroStart {
+	if zeroOnFree(sys, x) {
 		m.FMG(b, x)
 	}
 	r := m.fine.r
