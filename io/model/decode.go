@@ -23,6 +23,9 @@ type decoder struct {
 	m     *Model
 	p     *bc.Problem
 	used  map[string]bool // materials already listed in m.Materials
+	// extend is the factor of [boundary] far.extend; 1 leaves the open
+	// sides where the domain puts them.
+	extend float64
 }
 
 // Length units a file may state, with their size in metres.
@@ -66,7 +69,7 @@ func (d *decoder) model(raw *rawFile) (*Model, error) {
 	}
 	steps := []func(*rawFile) error{
 		d.units, d.domain, d.materials, d.conductors, d.regions, d.pointCharges,
-		d.boundary, d.references, d.overlaps, d.grid, d.solver, d.outputs,
+		d.boundary, d.references, d.overlaps, d.solver, d.outputs, d.extendOpen, d.grid,
 	}
 	for _, step := range steps {
 		if err := step(raw); err != nil {
@@ -145,6 +148,7 @@ func (d *decoder) domain(raw *rawFile) error {
 		lo[a], hi[a] = l, h
 	}
 	d.p.Domain = bc.Rect{X0: lo[0], Y0: lo[1], X1: hi[0], Y1: hi[1]}
+	d.m.Domain = d.p.Domain
 	if d.p.Metric == grid.Axisymmetric && lo[0] < 0 {
 		return d.errAt("domain.x", "an axisymmetric domain lies at r ≥ 0 (x is the radius and the axis is r = 0), but x starts at %s", d.length(lo[0]))
 	}
@@ -607,20 +611,31 @@ func (d *decoder) boundary(raw *rawFile) error {
 			continue
 		}
 		if !d.ix.has(join(key, "kind")) {
-			return d.missing(key, "kind", `"zero-flux" (∂φ/∂n = 0: a symmetry plane or insulating wall) or "fixed" (with potential or conductor)`)
+			return d.missing(key, "kind", `"zero-flux" (∂φ/∂n = 0: a symmetry plane or insulating wall), "fixed" (with potential or conductor) or "open" (unbounded space, φ = 0 at infinity)`)
 		}
 		hasV, hasC := d.ix.has(join(key, "potential")), d.ix.has(join(key, "conductor"))
+		onAxis := d.p.Metric == grid.Axisymmetric && s == bc.Left && d.p.Domain.X0 == 0
 		switch side.Kind {
-		case "zero-flux":
+		case "zero-flux", "open":
 			if hasV || hasC {
 				k := "potential"
 				if hasC {
 					k = "conductor"
 				}
-				return d.schemaAt(join(key, k), `a zero-flux side takes no %s; use kind = "fixed" to hold the side at a potential`, k)
+				article := "a"
+				if side.Kind == "open" {
+					article = "an"
+				}
+				return d.schemaAt(join(key, k), `%s %s side takes no %s; use kind = "fixed" to hold the side at a potential`, article, side.Kind, k)
+			}
+			if side.Kind == "open" {
+				if onAxis {
+					return d.errAt(key, `the left side is the axis r = 0, which cannot be open: no space lies beyond it, only the body's other half; make it kind = "zero-flux" or leave it out`)
+				}
+				d.p.Sides[s] = bc.Side{Kind: bc.Open}
 			}
 		case "fixed":
-			if d.p.Metric == grid.Axisymmetric && s == bc.Left && d.p.Domain.X0 == 0 {
+			if onAxis {
 				return d.errAt(key, `the left side is the axis r = 0, where no condition can be imposed; make it kind = "zero-flux" or leave it out`)
 			}
 			switch {
@@ -640,9 +655,79 @@ func (d *decoder) boundary(raw *rawFile) error {
 				return d.missing(key, "potential", "a fixed side needs its potential in "+d.vunit.Name+", or the name of the conductor it belongs to as conductor = \"...\"")
 			}
 		default:
-			return d.schemaAt(join(key, "kind"), `unknown boundary kind %q; use "zero-flux" or "fixed"`, side.Kind)
+			return d.schemaAt(join(key, "kind"), `unknown boundary kind %q; use "zero-flux", "fixed" or "open"`, side.Kind)
 		}
 	}
+	return d.far(raw.Boundary.Far)
+}
+
+// MaxDecay and MaxExtend bound [boundary] far.decay and far.extend. A
+// decay beyond a few is a high multipole that no open side needs, and an
+// extension beyond some hundreds gains nothing, as the error of the open
+// condition then lies far below that of the grid.
+const (
+	MaxDecay  = 10
+	MaxExtend = 1000
+)
+
+// far reads [boundary] far, after the sides.
+func (d *decoder) far(f *rawFar) error {
+	d.extend = 1
+	const key = "boundary.far"
+	if f == nil || !d.ix.has(key) {
+		return nil
+	}
+	open := false
+	for _, s := range d.p.Sides {
+		open = open || s.Kind == bc.Open
+	}
+	if !open {
+		return d.errAt(key, `far describes the far field that open sides assume, but no side is open; make a side kind = "open" or remove far`)
+	}
+	ff := d.p.DefaultFar()
+	given := false
+	if d.ix.has(join(key, "center")) {
+		x, y, err := d.point(join(key, "center"), f.Center)
+		if err != nil {
+			return err
+		}
+		if d.p.Metric == grid.Axisymmetric && x != 0 {
+			return d.errAt(join(key, "center"), "in an axisymmetric model the far-field centre lies on the axis, but it is at r = %s; give center = [0, z]", d.length(x))
+		}
+		ff.X, ff.Y, given = x, y, true
+	}
+	if d.ix.has(join(key, "decay")) {
+		if !(f.Decay > 0 && f.Decay <= MaxDecay) {
+			return d.errAt(join(key, "decay"), "decay is the power n of φ ∝ R⁻ⁿ far away and must lie in (0, %d], got %g: 1 for a body of revolution with net charge or a planar system without, 2 for a body of revolution without net charge", MaxDecay, f.Decay)
+		}
+		ff.Decay, given = f.Decay, true
+	}
+	if given {
+		d.p.Far = &ff
+	}
+	if d.ix.has(join(key, "extend")) {
+		if !(f.Extend >= 1 && f.Extend <= MaxExtend) {
+			return d.errAt(join(key, "extend"), "extend moves the open sides that many times farther from the far-field centre and must lie in [1, %d] (1 leaves them in place; 5 to 20 suits most models), got %g", MaxExtend, f.Extend)
+		}
+		d.extend = f.Extend
+	}
+	return nil
+}
+
+// extendOpen moves the open sides outward by [boundary] far.extend, once
+// everything else is read: the model's problem becomes that of
+// bc.ExtendOpen, with the file's domain kept in Model.Domain.
+func (d *decoder) extendOpen(*rawFile) error {
+	if d.extend == 1 {
+		return nil
+	}
+	q, err := bc.ExtendOpen(d.p, d.extend)
+	if err != nil {
+		e := d.errAt("boundary.far.extend", "cannot extend the open sides: %v", err)
+		e.Err = fmt.Errorf("%w: %w", ErrInvalid, err)
+		return e
+	}
+	d.p, d.m.Problem = q, q
 	return nil
 }
 
@@ -657,6 +742,9 @@ func (d *decoder) references(*rawFile) error {
 	}
 	fixed := false
 	for _, s := range d.p.Sides {
+		if s.Kind == bc.Open {
+			fixed = true // zero at infinity
+		}
 		if s.Kind != bc.Fixed {
 			continue
 		}
@@ -676,7 +764,7 @@ func (d *decoder) references(*rawFile) error {
 	}
 	if !fixed {
 		return &Error{File: d.name, Err: ErrInvalid,
-			Msg: "nothing has a fixed potential, so the potential is undetermined; give a conductor a potential or make a [boundary] side kind = \"fixed\""}
+			Msg: "nothing has a fixed potential, so the potential is undetermined; give a conductor a potential or make a [boundary] side kind = \"fixed\" (or \"open\", zero at infinity)"}
 	}
 	return nil
 }
@@ -685,7 +773,7 @@ func (d *decoder) references(*rawFile) error {
 // the machine's memory.
 func (d *decoder) grid(raw *rawFile) error {
 	g := raw.Grid
-	dom := d.p.Domain
+	dom := d.m.Domain // as written: an extended far region does not coarsen the default
 	mesh := bc.Mesh{Cell: math.Max(dom.X1-dom.X0, dom.Y1-dom.Y0) / DefaultCells, Refine: 4, Ratio: 1.2, Gap: 4, Corner: 2, MaxNodes: bc.DefaultMaxNodes}
 	if d.ix.has("grid.cell") {
 		if !(g.Cell > 0) || math.IsInf(g.Cell, 0) {
@@ -970,7 +1058,7 @@ func (d *decoder) inside(key string, v []float64) (float64, float64, error) {
 	if err != nil {
 		return 0, 0, err
 	}
-	if dom := d.p.Domain; !dom.Contains(x, y) {
+	if dom := d.m.Domain; !dom.Contains(x, y) {
 		s := d.lunit.Scale
 		return 0, 0, d.errAt(key, "the point (%g, %g) %s lies outside the domain [%g, %g] × [%g, %g] %s",
 			v[0], v[1], d.lunit.Name, dom.X0/s, dom.X1/s, dom.Y0/s, dom.Y1/s, d.lunit.Name)

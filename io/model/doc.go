@@ -305,11 +305,50 @@
 //	{ kind = "zero-flux" }                      ∂φ/∂n = 0: a symmetry plane or insulating wall
 //	{ kind = "fixed", potential = 0 }           held at a potential (potential unit)
 //	{ kind = "fixed", conductor = "ground" }    part of a conductor: its charge counts
+//	{ kind = "open" }                           unbounded space beyond, φ = 0 at infinity
 //
 // In an axisymmetric domain that starts at r = 0 the left side is the
-// axis and must stay zero-flux. Two sides that meet at a corner cannot
-// belong to conductors at different potentials, and a conductor region
-// must not touch a side belonging to a conductor at another potential.
+// axis and must stay zero-flux (it can be neither fixed nor open). Two
+// sides that meet at a corner cannot belong to conductors at different
+// potentials, and a conductor region must not touch a side belonging to a
+// conductor at another potential.
+//
+// # Open sides
+//
+// An open side stands for empty space reaching to infinity, where the
+// potential is zero; an isolated electrode in open space is written with
+// its outer sides open and needs no ground at all. The side carries the
+// asymptotic (Robin) condition ∂φ/∂n = −n·(n̂·r̂)·φ/R, exact for a
+// potential that falls off like R⁻ⁿ with the distance R from a centre,
+// and its error shrinks as the side moves away from the geometry. The
+// optional key far of [boundary] sets that far field:
+//
+//	far = { center = [x, y], decay = n, extend = f }
+//
+//	center  [x, y]  centre of the far field in the length unit (default: the
+//	                middle of the geometry, mirrored across the zero-flux
+//	                sides it touches); in an axisymmetric model x must be 0
+//	decay   number  the power n in φ ∝ R⁻ⁿ, in (0, 10] (default 1)
+//	extend  number  in [1, 1000]: move the open sides f times as far from the
+//	                centre (default 1: they stay where [domain] puts them)
+//
+// Choose decay by what the far field looks like. n = 1, the default, is
+// right for a body of revolution with net charge, such as an isolated
+// electrode (the monopole, 1/R), and for a planar system with no net
+// charge, such as a two-wire line (the 2-D dipole, cos θ/R). Use n = 2
+// for a body of revolution with no net charge, such as two electrodes at
+// +V and −V (a dipole). A planar system with net charge has no potential
+// at infinity — it grows like ln R — so there an open side only acts like
+// a distant ground: the result is approximate and depends on where the
+// side is; check it by moving the side, or use a fixed side far away.
+//
+// Put open sides well away from the geometry, cheaply: let [domain] reach
+// two to three body sizes beyond the geometry and set extend = 5 to 20 (10
+// is a good start). The sides then move outward, and the grid fills the far
+// region with cells growing by [grid] ratio, which costs few nodes.
+// Probes and cuts must lie in the domain as written; the solution, the
+// charges and the pictures cover the extended one. far without any open
+// side is an error.
 //
 // # [grid]
 //
@@ -381,7 +420,9 @@
 // Before returning, Parse checks, and reports the first failure of:
 // unknown keys, values of the wrong type, missing required keys and unknown
 // keywords; shapes that are malformed, lie entirely outside the domain or
-// reach r < 0 in an axisymmetric model; permittivities ≤ 0; unknown or
+// reach r < 0 in an axisymmetric model; a fixed or open axis, a far field
+// without open sides or off the axis of an axisymmetric model, a decay or
+// an extension out of range; permittivities ≤ 0; unknown or
 // duplicate names of materials, conductors, regions, charges, probes and
 // cuts; conductors at different potentials that overlap or touch, found by
 // sampling the geometry in region order; conductors hidden by later

@@ -111,8 +111,15 @@ type Model struct {
 	// model's own unit; PotentialUnit the potential unit (V or kV).
 	Unit, PotentialUnit Unit
 	// Problem is the electrostatic problem in SI units. It has passed
-	// bc.Problem.Validate.
+	// bc.Problem.Validate. When [boundary] far gives extend > 1, it is the
+	// result of bc.ExtendOpen: its open sides lie farther out than the
+	// file's domain, and Problem.Far holds the far field they assume.
 	Problem *bc.Problem
+	// Domain is the domain as the file gives it, in metres: the region
+	// of interest, where probes and cuts lie. It equals Problem.Domain
+	// unless open sides were extended, so pictures and tables that show
+	// the geometry rather than the far region can be limited to it.
+	Domain bc.Rect
 	// Mesh controls the automatic grid, in SI units, defaults filled in.
 	Mesh bc.Mesh
 	// Solver is the solver choice, defaults filled in.

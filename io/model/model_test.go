@@ -599,3 +599,194 @@ func TestNodeCapExact(t *testing.T) {
 		}
 	}
 }
+
+// sphereInSpace is an isolated sphere of radius 10 mm at 1 kV in r–z with
+// open outer sides; tests append [boundary] far.
+const sphereInSpace = `
+[units]
+length = "mm"
+potential = "kV"
+[domain]
+kind = "axisymmetric"
+x = [0, 30]
+y = [-30, 30]
+[[conductor]]
+name = "sphere"
+potential = 1
+[[region]]
+kind = "conductor"
+conductor = "sphere"
+circle = { center = [0, 0], radius = 10 }
+[boundary]
+right = { kind = "open" }
+bottom = { kind = "open" }
+top = { kind = "open" }
+`
+
+func sphereProblem() *bc.Problem {
+	p := &bc.Problem{Metric: grid.Axisymmetric, Domain: bc.Rect{X0: 0, Y0: -0.03, X1: 0.03, Y1: 0.03}, Background: 1}
+	p.Conductors = []bc.Conductor{{Name: "sphere", Potential: 1000}}
+	p.Regions = []bc.Region{{Kind: bc.ConductorRegion, Conductor: "sphere", Shape: bc.Circle{R: 0.01}}}
+	for _, s := range []int{bc.Right, bc.Bottom, bc.Top} {
+		p.Sides[s] = bc.Side{Kind: bc.Open}
+	}
+	return p
+}
+
+// twoWire is the quarter x ≥ 0 of a two-wire line in a planar model: the
+// plane x = 0 at 0 V, the wire at +1 V, open sides elsewhere; tests append
+// [boundary] far.
+const twoWire = `
+[units]
+length = "mm"
+[domain]
+kind = "planar"
+x = [0, 10]
+y = [0, 10]
+[[conductor]]
+name = "wire"
+potential = 1
+[[region]]
+kind = "conductor"
+conductor = "wire"
+circle = { center = [5, 5], radius = 1 }
+[boundary]
+left = { kind = "fixed", potential = 0 }
+right = { kind = "open" }
+bottom = { kind = "open" }
+top = { kind = "open" }
+`
+
+func twoWireProblem() *bc.Problem {
+	p := &bc.Problem{Metric: grid.Planar, Domain: bc.Rect{X1: 0.01, Y1: 0.01}, Background: 1}
+	p.Conductors = []bc.Conductor{{Name: "wire", Potential: 1}}
+	p.Regions = []bc.Region{{Kind: bc.ConductorRegion, Conductor: "wire", Shape: bc.Circle{X: 0.005, Y: 0.005, R: 0.001}}}
+	p.Sides[bc.Left] = bc.Side{Kind: bc.Fixed}
+	for _, s := range []int{bc.Right, bc.Bottom, bc.Top} {
+		p.Sides[s] = bc.Side{Kind: bc.Open}
+	}
+	return p
+}
+
+func TestParseOpen(t *testing.T) {
+	tests := []struct {
+		name   string
+		reason string
+		src    string
+		want   func() *bc.Problem
+		domain bc.Rect // Model.Domain, the file's domain
+		cell   float64 // the default Mesh.Cell
+	}{
+		{
+			name:   "open sides",
+			reason: "open sides without far keep bc's default far field (Far nil) and the domain",
+			src:    sphereInSpace,
+			want:   sphereProblem,
+			domain: bc.Rect{Y0: -0.03, X1: 0.03, Y1: 0.03},
+			cell:   0.06 / DefaultCells,
+		},
+		{
+			name:   "decay and centre",
+			reason: "far.center and far.decay map to Problem.Far in SI; the domain stays",
+			src:    sphereInSpace + "far = { center = [0, 5], decay = 2 }\n",
+			want: func() *bc.Problem {
+				p := sphereProblem()
+				p.Far = &bc.FarField{X: 0, Y: 0.005, Decay: 2}
+				return p
+			},
+			domain: bc.Rect{Y0: -0.03, X1: 0.03, Y1: 0.03},
+			cell:   0.06 / DefaultCells,
+		},
+		{
+			name:   "extended tenfold",
+			reason: "far.extend moves every open side ten times as far from the centre (0, 0), pins the centre, keeps the axis; the default cell follows the file's domain",
+			src:    sphereInSpace + "far = { extend = 10 }\n",
+			want: func() *bc.Problem {
+				p := sphereProblem()
+				p.Domain = bc.Rect{X0: 0, Y0: -0.3, X1: 0.3, Y1: 0.3}
+				p.Far = &bc.FarField{Decay: 1}
+				return p
+			},
+			domain: bc.Rect{Y0: -0.03, X1: 0.03, Y1: 0.03},
+			cell:   0.06 / DefaultCells,
+		},
+		{
+			name:   "extend 1",
+			reason: "extend = 1 leaves the problem as it is",
+			src:    sphereInSpace + "[boundary.far]\nextend = 1\n",
+			want:   sphereProblem,
+			domain: bc.Rect{Y0: -0.03, X1: 0.03, Y1: 0.03},
+			cell:   0.06 / DefaultCells,
+		},
+		{
+			name:   "planar, centre given and extended",
+			reason: "open sides move from the given centre (0, 5) mm, the fixed side stays; decay defaults to 1",
+			src:    twoWire + "far = { center = [0, 5], extend = 4 }\n",
+			want: func() *bc.Problem {
+				p := twoWireProblem()
+				p.Domain = bc.Rect{X0: 0, Y0: -0.015, X1: 0.04, Y1: 0.025}
+				p.Far = &bc.FarField{X: 0, Y: 0.005, Decay: 1}
+				return p
+			},
+			domain: bc.Rect{X1: 0.01, Y1: 0.01},
+			cell:   0.01 / DefaultCells,
+		},
+		{
+			name:   "planar, decay only",
+			reason: "with decay alone the centre is bc's default: the middle of the geometry",
+			src:    twoWire + "far = { decay = 1.5 }\n",
+			want: func() *bc.Problem {
+				p := twoWireProblem()
+				p.Far = &bc.FarField{X: 0.005, Y: 0.005, Decay: 1.5}
+				return p
+			},
+			domain: bc.Rect{X1: 0.01, Y1: 0.01},
+			cell:   0.01 / DefaultCells,
+		},
+		{
+			name:   "default centre mirrored",
+			reason: "geometry touching a zero-flux side is mirrored across it for the default centre, here onto the symmetry plane x = 0",
+			src:    strings.Replace(strings.Replace(twoWire, "center = [5, 5]", "center = [0, 5]", 1), `left = { kind = "fixed", potential = 0 }`, "", 1) + "far = { decay = 1 }\n",
+			want: func() *bc.Problem {
+				p := twoWireProblem()
+				p.Regions[0].Shape = bc.Circle{X: 0, Y: 0.005, R: 0.001}
+				p.Sides[bc.Left] = bc.Side{}
+				p.Far = &bc.FarField{X: 0, Y: 0.005, Decay: 1}
+				return p
+			},
+			domain: bc.Rect{X1: 0.01, Y1: 0.01},
+			cell:   0.01 / DefaultCells,
+		},
+		{
+			name:   "floating conductors in open space",
+			reason: "an open side fixes the potential (zero at infinity), so a model of floating conductors only is determined",
+			src: strings.Replace(strings.Replace(twoWire, "potential = 1\n", "floating = true\ncharge = 1e-9\n", 1),
+				`left = { kind = "fixed", potential = 0 }`, "", 1),
+			want: func() *bc.Problem {
+				p := twoWireProblem()
+				p.Conductors = []bc.Conductor{{Name: "wire", Floating: true, Charge: 1e-9}}
+				p.Sides[bc.Left] = bc.Side{}
+				return p
+			},
+			domain: bc.Rect{X1: 0.01, Y1: 0.01},
+			cell:   0.01 / DefaultCells,
+		},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			m, err := Parse(tt.name+".toml", []byte(tt.src))
+			if err != nil {
+				t.Fatalf("%s: %v", tt.reason, err)
+			}
+			if diff := cmp.Diff(tt.want(), m.Problem, approx, cmpopts.EquateEmpty()); diff != "" {
+				t.Errorf("%s: problem mismatch (-want +got):\n%s", tt.reason, diff)
+			}
+			if diff := cmp.Diff(tt.domain, m.Domain, approx); diff != "" {
+				t.Errorf("%s: Model.Domain (-want +got):\n%s", tt.reason, diff)
+			}
+			if diff := cmp.Diff(tt.cell, m.Mesh.Cell, approx); diff != "" {
+				t.Errorf("%s: default cell (-want +got):\n%s", tt.reason, diff)
+			}
+		})
+	}
+}

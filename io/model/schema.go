@@ -104,12 +104,19 @@ type rawBoundary struct {
 	Right  *rawSide `toml:"right"`
 	Bottom *rawSide `toml:"bottom"`
 	Top    *rawSide `toml:"top"`
+	Far    *rawFar  `toml:"far"`
 }
 
 type rawSide struct {
 	Kind      string  `toml:"kind"`
 	Potential float64 `toml:"potential"`
 	Conductor string  `toml:"conductor"`
+}
+
+type rawFar struct {
+	Center []float64 `toml:"center"`
+	Decay  float64   `toml:"decay"`
+	Extend float64   `toml:"extend"`
 }
 
 type rawGrid struct {

@@ -110,6 +110,8 @@ var typeHints = map[string]string{
 	"boundary.right":                `a table such as { kind = "fixed", potential = 0 }`,
 	"boundary.bottom":               `a table such as { kind = "fixed", potential = 0 }`,
 	"boundary.top":                  `a table such as { kind = "fixed", potential = 0 }`,
+	"boundary.far":                  "a table such as { center = [0, 0], decay = 1, extend = 10 }",
+	"boundary.far.center":           "a point [x, y] of two numbers",
 	"conductor":                     "an array of tables, one [[conductor]] per conductor",
 	"region":                        "an array of tables, one [[region]] per region",
 	"line_charge":                   "an array of tables, one [[line_charge]] per charge",
