@@ -215,9 +215,12 @@ func (l *coarseLevel) relaxRow(j int, back bool) {
 			pi = 1 - q
 		}
 		for i := 1 + pi; i+1 < len(xr); i += 2 {
-			v := b[i] - w[i]*xr[i-1] - w[i+1]*xr[i+1] - s[i]*xs[i] - sN[i]*xn[i] -
-				sw[i]*xs[i-1] - se[i]*xs[i+1] - swN[i+1]*xn[i+1] - seN[i-1]*xn[i-1]
-			xr[i] = v / c[i]
+			// Three partial sums shorten the chain of dependent
+			// additions.
+			v0 := b[i] - w[i]*xr[i-1] - w[i+1]*xr[i+1]
+			v1 := s[i]*xs[i] + sN[i]*xn[i] + sw[i]*xs[i-1]
+			v2 := se[i]*xs[i+1] + swN[i+1]*xn[i+1] + seN[i-1]*xn[i-1]
+			xr[i] = (v0 - (v1 + v2)) / c[i]
 		}
 	}
 }
@@ -241,8 +244,10 @@ func (l *coarseLevel) residualBlocks(lo, hi int) {
 			sw, se := l.sw[o:o+st:o+st], l.se[o:o+st:o+st]
 			sN, swN, seN := l.s[o+st:o+2*st:o+2*st], l.sw[o+st:o+2*st:o+2*st], l.se[o+st:o+2*st:o+2*st]
 			for i := 1; i+1 < len(xr); i++ {
-				r[i] = b[i] - c[i]*xr[i] - w[i]*xr[i-1] - w[i+1]*xr[i+1] - s[i]*xs[i] - sN[i]*xn[i] -
-					sw[i]*xs[i-1] - se[i]*xs[i+1] - swN[i+1]*xn[i+1] - seN[i-1]*xn[i-1]
+				v0 := b[i] - c[i]*xr[i] - w[i]*xr[i-1] - w[i+1]*xr[i+1]
+				v1 := s[i]*xs[i] + sN[i]*xn[i] + sw[i]*xs[i-1]
+				v2 := se[i]*xs[i+1] + swN[i+1]*xn[i+1] + seN[i-1]*xn[i-1]
+				r[i] = v0 - (v1 + v2)
 			}
 		}
 	}

@@ -309,7 +309,7 @@ func (f *fineLevel) relaxRow(j, color int) {
 	xr, xs, xn := x[o:o+nx], x[o-nx:o], x[o+nx:o+2*nx]
 	br, ir, axr, ays, ayr := b[o:o+nx], inv[o:o+nx], ax[o:o+nx], ay[o-nx:o], ay[o:o+nx]
 	for ; i < nx-1; i += 2 {
-		xr[i] = (br[i] + axr[i-1]*xr[i-1] + axr[i]*xr[i+1] + ays[i]*xs[i] + ayr[i]*xn[i]) * ir[i]
+		xr[i] = ((br[i] + axr[i-1]*xr[i-1] + axr[i]*xr[i+1]) + (ays[i]*xs[i] + ayr[i]*xn[i])) * ir[i]
 	}
 	if i == nx-1 {
 		n := o + i

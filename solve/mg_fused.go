@@ -56,7 +56,7 @@ func (f *fineLevel) residualRow(j, i0 int, out []float64) {
 		i, I = 2, 1
 	}
 	for ; i < nx-1; i, I = i+2, I+1 {
-		out[I] = br[i] - dr[i]*xr[i] + axr[i-1]*xr[i-1] + axr[i]*xr[i+1] + ays[i]*xs[i] + ayr[i]*xn[i]
+		out[I] = (br[i] - dr[i]*xr[i] + axr[i-1]*xr[i-1]) + (axr[i]*xr[i+1] + ays[i]*xs[i] + ayr[i]*xn[i])
 	}
 	if i == nx-1 {
 		out[I] = f.redResidual(i, j)

@@ -299,9 +299,11 @@ func TestSmoothersMatchColourSweeps(t *testing.T) {
 				for j := col >> 1; j < c.ny; j += 2 {
 					for i := col & 1; i < c.nx; i += 2 {
 						n := c.idx(i, j)
-						v := cb[n] - c.w[n]*cref[n-1] - c.w[n+1]*cref[n+1] - c.s[n]*cref[n-st] - c.s[n+st]*cref[n+st] -
-							c.sw[n]*cref[n-st-1] - c.se[n]*cref[n-st+1] - c.sw[n+st+1]*cref[n+st+1] - c.se[n+st-1]*cref[n+st-1]
-						cref[n] = v / c.c[n]
+						// The same grouping of the sum as relaxRow.
+						v0 := cb[n] - c.w[n]*cref[n-1] - c.w[n+1]*cref[n+1]
+						v1 := c.s[n]*cref[n-st] + c.s[n+st]*cref[n+st] + c.sw[n]*cref[n-st-1]
+						v2 := c.se[n]*cref[n-st+1] + c.sw[n+st+1]*cref[n+st+1] + c.se[n+st-1]*cref[n+st-1]
+						cref[n] = (v0 - (v1 + v2)) / c.c[n]
 					}
 				}
 			}
