@@ -10,9 +10,11 @@ import (
 // FuzzParse checks that Parse never panics and keeps its contract on any
 // input: either a Model whose problem validates, or an *Error wrapping one
 // of the three sentinels. The seed corpus is every model under testdata
-// (valid ones) and the shared broken models.
+// (valid ones, among them open.toml with open sides, a far field, ellipses
+// and the [grid] keys gap and corner), the shared broken models and two
+// shipped examples.
 func FuzzParse(f *testing.F) {
-	for _, pattern := range []string{"testdata/*.toml", "../../testdata/broken/*.toml", "../../examples/coax/*.toml"} {
+	for _, pattern := range []string{"testdata/*.toml", "../../testdata/broken/*.toml", "../../examples/coax/*.toml", "../../examples/sphere/*.toml"} {
 		files, err := filepath.Glob(pattern)
 		if err != nil {
 			f.Fatal(err)
@@ -27,6 +29,7 @@ func FuzzParse(f *testing.F) {
 	}
 	f.Add([]byte(base))
 	f.Add([]byte("region = [{ kind = \"conductor\", polygon = { points = [[0, 0], [1, 0]] } }]\n[units]\nlength = \"m\"\n"))
+	f.Add([]byte(sphereInSpace + "far = { center = [0, 1], decay = 2, extend = 1e3 }\n[grid]\ngap = 1\ncorner = 1\n"))
 	f.Fuzz(func(t *testing.T, src []byte) {
 		m, err := Parse("fuzz.toml", src)
 		if err != nil {

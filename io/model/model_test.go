@@ -4,6 +4,7 @@ import (
 	"errors"
 	"math"
 	"os"
+	"path/filepath"
 	"strconv"
 	"strings"
 	"testing"
@@ -788,5 +789,49 @@ func TestParseOpen(t *testing.T) {
 				t.Errorf("%s: default cell (-want +got):\n%s", tt.reason, diff)
 			}
 		})
+	}
+}
+
+// TestSeedModels checks that every model under testdata, the valid part
+// of the fuzz corpus, parses and builds its grid.
+func TestSeedModels(t *testing.T) {
+	files, err := filepath.Glob("testdata/*.toml")
+	if err != nil || len(files) < 5 {
+		t.Fatalf("found %d models under testdata (%v)", len(files), err)
+	}
+	for _, f := range files {
+		m, err := Load(f)
+		if err != nil {
+			t.Errorf("%v", err)
+			continue
+		}
+		if _, err := m.Grid(); err != nil {
+			t.Errorf("%s: %v", f, err)
+		}
+	}
+}
+
+// TestOpenSeed checks what testdata/open.toml is in the corpus for: open
+// sides pushed out eightfold from the given centre, an ellipse, and the
+// [grid] keys gap and corner.
+func TestOpenSeed(t *testing.T) {
+	m, err := Load("testdata/open.toml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	got := struct {
+		Domain, FileDomain bc.Rect
+		Far                *bc.FarField
+		Shape              bc.Shape
+		Mesh               bc.Mesh
+	}{m.Problem.Domain, m.Domain, m.Problem.Far, m.Problem.Regions[0].Shape, m.Mesh}
+	want := got
+	want.Domain = bc.Rect{X0: 0, Y0: -0.08, X1: 0.096, Y1: 0.08}
+	want.FileDomain = bc.Rect{X0: 0, Y0: -0.01, X1: 0.012, Y1: 0.01}
+	want.Far = &bc.FarField{Decay: 1}
+	want.Shape = bc.Ellipse{X: 0.004, A: 0.002, B: 0.001}
+	want.Mesh = bc.Mesh{Cell: 0.5e-3, Refine: 4, Ratio: 1.2, Gap: 6, Corner: 1.5, MaxNodes: bc.DefaultMaxNodes}
+	if diff := cmp.Diff(want, got, approx); diff != "" {
+		t.Errorf("open.toml (-want +got):\n%s", diff)
 	}
 }
