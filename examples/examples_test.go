@@ -172,3 +172,30 @@ func TestTouchpad(t *testing.T) {
 		t.Errorf("pad charge %.4g C/m outside [%.4g, %.4g]", q, lo, hi)
 	}
 }
+
+// TestSphere checks the isolated sphere in open space against its closed
+// forms: the capacitance 4πε0R and the uniform surface field V/R. The open
+// sides are what this example tests; a grounded enclosure would add
+// 4πε0R²/(b−R) to the capacitance.
+func TestSphere(t *testing.T) {
+	s := load(t, "sphere", nil)
+	k := index(t, s.m.Problem, "sphere")
+	const R, V = 10e-3, 1000.0
+	// source: Jackson, Classical Electrodynamics, 3rd ed., 1999: C = 4πε0R
+	wantC := 4 * math.Pi * eps0 * R // 1.1126501 pF
+	if e := math.Abs(s.c[k][k]/wantC - 1); e > 5e-3 {
+		t.Errorf("C = %.6g pF, want %.6g pF within 0.5 %% (rel err %.2g)", s.c[k][k]*1e12, wantC*1e12, e)
+	}
+	set := solve.Settings{Tol: 1e-10}
+	if err := s.sol.RefineSurface(context.Background(), &set); err != nil {
+		t.Fatal(err)
+	}
+	// source: Jackson, Classical Electrodynamics, 3rd ed., 1999: E = Q/(4πε0R²) = V/R
+	wantE := V / R // 100 kV/m
+	pk := s.sol.PeakSurfaceField(k)
+	t.Logf("C = %.6g pF (4πε0R %.6g), peak |E| = %.5g V/m at (%.3g, %.3g) mm (V/R %.5g)",
+		s.c[k][k]*1e12, wantC*1e12, pk.Value, pk.X*1e3, pk.Y*1e3, wantE)
+	if e := math.Abs(pk.Value/wantE - 1); e > 0.02 {
+		t.Errorf("peak surface field %.5g V/m, want %.5g V/m within 2 %% (rel err %.2g)", pk.Value, wantE, e)
+	}
+}
