@@ -835,3 +835,22 @@ func TestOpenSeed(t *testing.T) {
 		t.Errorf("open.toml (-want +got):\n%s", diff)
 	}
 }
+
+// TestSphereExample parses the shipped example of an isolated sphere in
+// open space: the model file's open sides, moved tenfold outward.
+func TestSphereExample(t *testing.T) {
+	m, err := Load("../../examples/sphere/sphere.toml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := sphereProblem()
+	want.Regions[0].Name = "sphere"
+	want.Domain = bc.Rect{X0: 0, Y0: -0.3, X1: 0.3, Y1: 0.3}
+	want.Far = &bc.FarField{Decay: 1}
+	if diff := cmp.Diff(want, m.Problem, approx, cmpopts.EquateEmpty()); diff != "" {
+		t.Errorf("sphere problem (-want +got):\n%s", diff)
+	}
+	if diff := cmp.Diff(bc.Rect{Y0: -0.03, X1: 0.03, Y1: 0.03}, m.Domain, approx); diff != "" {
+		t.Errorf("file domain (-want +got):\n%s", diff)
+	}
+}
