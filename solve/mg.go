@@ -205,15 +205,21 @@ func (m *Multigrid) vcycle(l int, x, b []float64, zero bool) {
 	if l > 0 {
 		_, _, r = m.vectors(l)
 	}
-	for s := 0; s < m.nu; s++ {
-		lv.smooth(x, b, zero && s == 0, false)
-	}
 	cx, cb, _ := m.vectors(l + 1)
-	if l == 0 && m.fine.smoother == PointGS {
-		m.fine.restrictRed(cb, x, b)
+	point := l == 0 && m.fine.smoother == PointGS
+	if point && zero && m.nu == 1 {
+		// Relaxation from zero and restriction in one pass.
+		m.fine.restrictZero(cb, x, b)
 	} else {
-		lv.residual(r, x, b)
-		lv.restrict(cb, r)
+		for s := 0; s < m.nu; s++ {
+			lv.smooth(x, b, zero && s == 0, false)
+		}
+		if point {
+			m.fine.restrictRed(cb, x, b)
+		} else {
+			lv.residual(r, x, b)
+			lv.restrict(cb, r)
+		}
 	}
 	m.vcycle(l+1, cx, cb, true)
 	s := 0

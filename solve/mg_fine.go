@@ -29,7 +29,9 @@ type fineLevel struct {
 	zero                  bool
 
 	smoothFn, edgeFn, restrictFn, prolongFn, lineFn, redFn func(lo, hi int)
-	postFn, postEdgeFn, postRedFn                          func(lo, hi int)
+	postFn, postEdgeFn, postRedFn, zeroFn                  func(lo, hi int)
+	// zeroBuf is the per-block row scratch of restrictZero.
+	zeroBuf []float64
 	// redBuf is the per-block row scratch of restrictRed.
 	redBuf []float64
 }
@@ -43,6 +45,7 @@ func newFineLevel(sys *System, k *kernels) *fineLevel {
 	f.lineFn = f.lineBlocks
 	f.redFn = f.redBlocks
 	f.postFn = f.postBlocks
+	f.zeroFn = f.zeroBlocks
 	f.postEdgeFn = f.postEdgeBlocks
 	f.postRedFn = f.postRedBlocks
 	return f
@@ -87,6 +90,7 @@ func (f *fineLevel) prepare() {
 	s := f.sys
 	nx, ny := f.nx, f.ny
 	f.redBuf = make([]float64, 4*f.ncx*min(64, f.ncy))
+	f.zeroBuf = make([]float64, 9*(f.nx/2+1)*min(64, f.ncy))
 	f.ix = make([]float64, f.ncx*f.ncy)
 	f.iy = make([]float64, f.ncx*f.ncy)
 	prefault(f.run, f.ix, f.iy)

@@ -231,6 +231,42 @@ func TestRestrictRedMatchesGeneral(t *testing.T) {
 	}
 }
 
+func TestRestrictZeroMatchesSeparate(t *testing.T) {
+	for _, c := range mgCases {
+		for _, n := range []int{33, 34} {
+			s := c.build(t, n)
+			for _, w := range []int{1, 3} {
+				m := newMultigrid(s, newKernels(s, w), Settings{Tol: 1e-8, MaxIter: 10})
+				f, c1 := m.fine, m.cs[0]
+				f.smoother = PointGS
+				b := pseudo(f, s.Len(), 0.3)
+				want, got := make([]float64, len(c1.b)), make([]float64, len(c1.b))
+				xw, xg := make([]float64, s.Len()), pseudo(f, s.Len(), 0.9)
+				f.smooth(xw, b, true, false)
+				f.restrictRed(want, xw, b)
+				f.restrictZero(got, xg, b)
+				scale := maxAbs(want)
+				for i := range want {
+					if math.Abs(want[i]-got[i]) > 1e-13*scale {
+						t.Fatalf("%s %d workers %d: coarse entry %d: %g vs %g", c.name, n, w, i, got[i], want[i])
+					}
+				}
+				// The red nodes hold the relaxed values; the black ones are
+				// left for the backward relaxation to overwrite.
+				for j := 0; j < s.Ny; j++ {
+					for i := j & 1; i < s.Nx; i += 2 {
+						k := j*s.Nx + i
+						if xg[k] != xw[k] {
+							t.Fatalf("%s %d workers %d: red node (%d, %d): %g vs %g", c.name, n, w, i, j, xg[k], xw[k])
+						}
+					}
+				}
+				m.Close()
+			}
+		}
+	}
+}
+
 func TestProlongSmoothMatchesSeparate(t *testing.T) {
 	for _, c := range mgCases {
 		for _, n := range []int{33, 34} {
