@@ -23,5 +23,5 @@ func Example() {
 		fmt.Printf("%s: %d nodes, %s, %d iterations, converged %v\n", r.Case, r.Nodes, r.Solver, r.Iterations, r.Residual <= rep.Tol)
 	}
 	// Output:
-	// unit-square 129²: 16641 nodes, mg-pcg, 8 iterations, converged true
+	// unit-square 129²: 16641 nodes, mg-pcg, 5 iterations, converged true
 }
