@@ -691,8 +691,17 @@ func (d *decoder) far(f *rawFar) error {
 		if err != nil {
 			return err
 		}
-		if d.p.Metric == grid.Axisymmetric && x != 0 {
+		axi := d.p.Metric == grid.Axisymmetric
+		if axi && x != 0 {
 			return d.errAt(join(key, "center"), "in an axisymmetric model the far-field centre lies on the axis, but it is at r = %s; give center = [0, z]", d.length(x))
+		}
+		// On the axis the centre may lie short of a domain that starts at
+		// r > 0; otherwise it belongs in the domain, at the middle of the
+		// geometry or on a symmetry plane (a side).
+		if dom := d.m.Domain; y < dom.Y0 || y > dom.Y1 || !axi && (x < dom.X0 || x > dom.X1) {
+			sc := d.lunit.Scale
+			return d.errAt(join(key, "center"), "the far-field centre (%g, %g) %s lies outside the domain [%g, %g] × [%g, %g] %s; put it at the middle of the geometry, or on the symmetry plane the geometry is mirrored across",
+				f.Center[0], f.Center[1], d.lunit.Name, dom.X0/sc, dom.X1/sc, dom.Y0/sc, dom.Y1/sc, d.lunit.Name)
 		}
 		ff.X, ff.Y, given = x, y, true
 	}

@@ -325,9 +325,10 @@
 //
 //	far = { center = [x, y], decay = n, extend = f }
 //
-//	center  [x, y]  centre of the far field in the length unit (default: the
-//	                middle of the geometry, mirrored across the zero-flux
-//	                sides it touches); in an axisymmetric model x must be 0
+//	center  [x, y]  centre of the far field in the length unit, in the domain
+//	                (default: the middle of the geometry, mirrored across the
+//	                zero-flux sides it touches); in an axisymmetric model x
+//	                must be 0
 //	decay   number  the power n in φ ∝ R⁻ⁿ, in (0, 10] (default 1)
 //	extend  number  in [1, 1000]: move the open sides f times as far from the
 //	                centre (default 1: they stay where [domain] puts them)
@@ -420,9 +421,10 @@
 // Before returning, Parse checks, and reports the first failure of:
 // unknown keys, values of the wrong type, missing required keys and unknown
 // keywords; shapes that are malformed, lie entirely outside the domain or
-// reach r < 0 in an axisymmetric model; a fixed or open axis, a far field
-// without open sides or off the axis of an axisymmetric model, a decay or
-// an extension out of range; permittivities ≤ 0; unknown or
+// reach r < 0 in an axisymmetric model; a fixed or open axis; a far field
+// without open sides, centred outside the domain or off the axis of an
+// axisymmetric model, or with a decay or an extension out of range;
+// permittivities ≤ 0; unknown or
 // duplicate names of materials, conductors, regions, charges, probes and
 // cuts; conductors at different potentials that overlap or touch, found by
 // sampling the geometry in region order; conductors hidden by later

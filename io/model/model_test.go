@@ -720,6 +720,21 @@ func TestParseOpen(t *testing.T) {
 			cell:   0.06 / DefaultCells,
 		},
 		{
+			name:   "centre on the axis, short of the domain",
+			reason: "in r–z the centre lies on the axis even when the domain starts at r > 0; the left side, nearer the axis than the centre is not, stays",
+			src: strings.Replace(strings.Replace(sphereInSpace, "x = [0, 30]", "x = [5, 30]", 1), "center = [0, 0], radius = 10", "center = [10, 0], radius = 2", 1) +
+				"far = { center = [0, 0], extend = 2 }\n",
+			want: func() *bc.Problem {
+				p := sphereProblem()
+				p.Regions[0].Shape = bc.Circle{X: 0.01, R: 0.002}
+				p.Domain = bc.Rect{X0: 0.005, Y0: -0.06, X1: 0.06, Y1: 0.06}
+				p.Far = &bc.FarField{Decay: 1}
+				return p
+			},
+			domain: bc.Rect{X0: 0.005, Y0: -0.03, X1: 0.03, Y1: 0.03},
+			cell:   0.06 / DefaultCells,
+		},
+		{
 			name:   "planar, centre given and extended",
 			reason: "open sides move from the given centre (0, 5) mm, the fixed side stays; decay defaults to 1",
 			src:    twoWire + "far = { center = [0, 5], extend = 4 }\n",
