@@ -38,7 +38,7 @@ func (s *mgcgSolver) Solve(ctx context.Context, b, x []float64) (*Result, error)
 		panic("solve: right-hand side or start vector has the wrong length")
 	}
 	start := time.Now()
-	if zeroOnFree(s.sys, x) && ctx.Err() == nil {
+	if ctx.Err() == nil && s.mg.fine.startFrom(x, b, startCheck) {
 		s.mg.FMG(b, x)
 	}
 	res, err := s.cgSolver.Solve(ctx, b, x)
@@ -46,16 +46,6 @@ func (s *mgcgSolver) Solve(ctx context.Context, b, x []float64) (*Result, error)
 		res.Elapsed = time.Since(start)
 	}
 	return res, err
-}
-
-// zeroOnFree reports whether x is zero on every free node.
-func zeroOnFree(sys *System, x []float64) bool {
-	for i, f := range sys.Fixed {
-		if !f && x[i] != 0 {
-			return false
-		}
-	}
-	return true
 }
 
 // Close implements Solver.

@@ -54,13 +54,25 @@ type Level struct {
 // problems and fixed nodes inside the domain thus shape the coarse
 // operators instead of spoiling them; fixed nodes receive no correction.
 //
-// Each level relaxes by Gauss–Seidel: point-wise (red-black on the finest,
-// four-colour on the nine-point levels) where the operator is close to
-// isotropic, zebra line relaxation along the dominant direction where the
-// couplings differ by more than LineRatio (graded grids with long thin
-// cells, cells cut by a dielectric interface). A V-cycle relaxes forward on the way down and in the reverse
-// order on the way up, so one V-cycle from zero is a symmetric positive
-// definite preconditioner for conjugate gradients.
+// Each level relaxes by Gauss–Seidel: point-wise (red-black on the
+// finest, four-colour on the nine-point levels) where the operator is
+// close to isotropic, zebra line relaxation along the dominant direction
+// where the couplings differ by more than LineRatio (graded grids with
+// long thin cells, cells cut by a dielectric interface). A V-cycle relaxes
+// forward on the way down and in the reverse order on the way up, so one
+// V-cycle from zero is a symmetric positive definite preconditioner for
+// conjugate gradients.
+//
+// Storage: the finest level is read in place and its interpolation
+// weights are recomputed from the operator (only the lumped diagonals of
+// the edge points are kept); every coarser level keeps five of its nine
+// stencil entries per node in float64 (the others follow by symmetry),
+// with a halo of zeros, and its interpolation weights. The whole hierarchy
+// takes about a third of the finest level's nodes; see EstimateMemory.
+//
+// Every kernel runs over fixed row blocks on the worker pool, and no value
+// depends on how the blocks are shared out, so results are identical,
+// bit for bit, for any number of workers. Nothing allocates after set-up.
 //
 // A Multigrid is set up once and reused for any number of right-hand
 // sides. It implements Solver by stand-alone V-cycles; the default solver
@@ -287,10 +299,14 @@ func (m *Multigrid) FMG(b, x []float64) {
 		} else {
 			xl, bl, _ = m.vectors(l)
 		}
-		clear(xl)
+		if l == 0 {
+			m.fine.startFrom(xl, bl, startZero)
+		} else {
+			m.cs[l-1].clearRows(xl)
+		}
 		m.lv[l].prolong(xl, m.cs[l].x)
 		if l == 0 {
-			m.sys.setFixed(xl, bl)
+			m.fine.startFrom(xl, bl, startFixed)
 		} else {
 			c := m.cs[l-1]
 			for i, f := range c.fixed {
@@ -310,7 +326,8 @@ func (m *Multigrid) FMG(b, x []float64) {
 
 // Solve implements Solver by V-cycles until the relative residual over
 // free rows is at most Tol. When x is zero on every free row it starts from
-// FMG.
+// FMG. The Result reports Method MGCG, the multigrid family, since Method
+// has no value of its own for stand-alone cycles.
 func (m *Multigrid) Solve(ctx context.Context, b, x []float64) (*Result, error) {
 	sys, k := m.sys, m.k
 	if len(b) != sys.Len() || len(x) != sys.Len() {
@@ -329,7 +346,7 @@ func (m *Multigrid) Solve(ctx context.Context, b, x []float64) (*Result, error) 
 		res.Elapsed = time.Since(start)
 		return res, nil
 	}
-	if zeroOnFree(sys, x) {
+	if m.fine.startFrom(x, b, startCheck) {
 		m.FMG(b, x)
 	}
 	r := m.fine.r

@@ -59,7 +59,7 @@ type coarseLevel struct {
 	cx, cb          []float64
 	color, lineAxis int
 
-	smoothFn, edgeFn, residualFn, restrictFn, prolongFn, lineFn func(lo, hi int)
+	smoothFn, edgeFn, residualFn, restrictFn, prolongFn, lineFn, clearFn func(lo, hi int)
 }
 
 func newCoarseLevel(nx, ny int) *coarseLevel {
@@ -77,6 +77,7 @@ func newCoarseLevel(nx, ny int) *coarseLevel {
 	l.r = make([]float64, n)
 	l.blocks = min(64, ny)
 	l.smoothFn = l.smoothBlocks
+	l.clearFn = l.clearBlocks
 	l.edgeFn = l.edgeBlocks
 	l.residualFn = l.residualBlocks
 	l.restrictFn = l.restrictBlocks
@@ -146,7 +147,7 @@ func (l *coarseLevel) rows(b int) (int, int) { return b * l.ny / l.blocks, (b + 
 // values of four separate colour sweeps, whatever the blocking.
 func (l *coarseLevel) smooth(x, b []float64, zero, post bool) {
 	if zero {
-		clear(x)
+		l.clearRows(x)
 	}
 	l.opX, l.opB = x, b
 	switch l.smoother {

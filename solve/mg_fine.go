@@ -29,7 +29,11 @@ type fineLevel struct {
 	zero                  bool
 
 	smoothFn, edgeFn, restrictFn, prolongFn, lineFn, redFn func(lo, hi int)
-	postFn, postEdgeFn, postRedFn, zeroFn                  func(lo, hi int)
+	postFn, postEdgeFn, postRedFn, zeroFn, startFn         func(lo, hi int)
+	// mode and nonzero are the operand and per-block results of
+	// startFrom.
+	mode    int
+	nonzero []bool
 	// zeroBuf is the per-block row scratch of restrictZero.
 	zeroBuf []float64
 	// redBuf is the per-block row scratch of restrictRed.
@@ -46,6 +50,8 @@ func newFineLevel(sys *System, k *kernels) *fineLevel {
 	f.redFn = f.redBlocks
 	f.postFn = f.postBlocks
 	f.zeroFn = f.zeroBlocks
+	f.startFn = f.startBlocks
+	f.nonzero = make([]bool, k.blocks)
 	f.postEdgeFn = f.postEdgeBlocks
 	f.postRedFn = f.postRedBlocks
 	return f
@@ -217,7 +223,7 @@ func (f *fineLevel) smooth(x, b []float64, zero, post bool) {
 	switch f.smoother {
 	case LineX, LineY, LineXY:
 		if zero {
-			clear(x)
+			f.startFrom(x, b, startZero)
 		}
 		f.smoothLines(post)
 		return

@@ -319,6 +319,11 @@ func TestMGStandaloneAndFMG(t *testing.T) {
 		x := make([]float64, s.Len())
 		mg.FMG(b, x)
 		fmg := maxErr(x)
+		for i, f := range s.Fixed {
+			if f && x[i] != b[i] {
+				t.Fatalf("%s: FMG left fixed node %d at %g, want %g", c.name, i, x[i], b[i])
+			}
+		}
 		clear(x)
 		mg.Cycle(b, x)
 		one := maxErr(x)
