@@ -344,7 +344,7 @@ func (l *coarseLevel) computeWeights() {
 		l.p = make([]float64, pLen*ncx*ncy)
 	}
 	p := l.p
-	for J := 0; J < ncy; J++ {
+	forRows(l.run, ncy, func(J int) {
 		for I := 0; I < ncx; I++ {
 			k := (I + ncx*J) * pLen
 			i, j := 2*I, 2*J
@@ -370,8 +370,9 @@ func (l *coarseLevel) computeWeights() {
 				p[k+pYS], p[k+pYN] = wS, wN
 			}
 		}
-	}
-	for J := 0; J < ncy; J++ {
+	})
+	// The centres need their neighbours' edge weights: a second pass.
+	forRows(l.run, ncy, func(J int) {
 		for I := 0; I < ncx; I++ {
 			i, j := 2*I, 2*J
 			q := l.idx(i, j)
@@ -404,7 +405,7 @@ func (l *coarseLevel) computeWeights() {
 				}
 			}
 		}
-	}
+	})
 }
 
 // edgeWeights returns the interpolation weights of an edge point from the

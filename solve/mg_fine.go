@@ -100,7 +100,7 @@ func (f *fineLevel) prepare() {
 	f.ix = make([]float64, f.ncx*f.ncy)
 	f.iy = make([]float64, f.ncx*f.ncy)
 	prefault(f.run, f.ix, f.iy)
-	for J := 0; J < f.ncy; J++ {
+	forRows(f.run, f.ncy, func(J int) {
 		for I := 0; I < f.ncx; I++ {
 			i, j := 2*I, 2*J
 			k := I + f.ncx*J
@@ -128,7 +128,7 @@ func (f *fineLevel) prepare() {
 				f.iy[k] = lumpedInverse(d, s.AY[n-nx]+s.AY[n])
 			}
 		}
-	}
+	})
 }
 
 // lumpedInverse returns 1/d for the lumped diagonal d of an edge point

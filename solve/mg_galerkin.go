@@ -160,11 +160,11 @@ func galerkinFine(f *fineLevel, c *coarseLevel, run func(n int, fn func(lo, hi i
 			}
 		})
 	}
-	for J := 0; J < ncy; J++ {
+	forRows(run, ncy, func(J int) {
 		for I := 0; I < ncx; I++ {
 			c.fixed[c.idx(I, J)] = f.isFixed(2*I, 2*J)
 		}
-	}
+	})
 	c.pinFixed()
 }
 
@@ -295,10 +295,10 @@ func galerkinCoarse(f *coarseLevel, c *coarseLevel, run func(n int, fn func(lo, 
 			}
 		})
 	}
-	for J := 0; J < ncy; J++ {
+	forRows(run, ncy, func(J int) {
 		for I := 0; I < ncx; I++ {
 			c.fixed[c.idx(I, J)] = f.fixed[f.idx(2*I, 2*J)]
 		}
-	}
+	})
 	c.pinFixed()
 }

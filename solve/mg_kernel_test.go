@@ -183,6 +183,7 @@ func TestGalerkinFineMatchesGeneral(t *testing.T) {
 		for _, n := range []int{17, 18, 33} {
 			s := c.build(t, n)
 			f := newFineLevel(s, newKernels(s, 1))
+			f.run = serial
 			f.ncx, f.ncy = (f.nx+1)/2, (f.ny+1)/2
 			f.prepare()
 			a, b := newCoarseLevel(f.ncx, f.ncy), newCoarseLevel(f.ncx, f.ncy)

@@ -51,9 +51,11 @@ func chooseSmoother(l mgLevel) Smoother {
 func (f *fineLevel) chooseSmoother() Smoother {
 	s := f.sys
 	nx, ny := f.nx, f.ny
-	var needX, needY bool
-	for j := 0; j < ny && !(needX && needY); j++ {
+	// Per row: bit 0 for a node strong along X, bit 1 along Y.
+	strong := make([]uint8, ny)
+	forRows(f.run, ny, func(j int) {
 		o := j * nx
+		var bits uint8
 		for i := 0; i < nx; i++ {
 			n := o + i
 			if s.Fixed[n] {
@@ -67,19 +69,24 @@ func (f *fineLevel) chooseSmoother() Smoother {
 				sy += s.AY[n-nx]
 			}
 			if sx > LineRatio*sy && sy > 0 {
-				needX = true
+				bits |= 1
 			}
 			if sy > LineRatio*sx && sx > 0 {
-				needY = true
+				bits |= 2
 			}
 		}
+		strong[j] = bits
+	})
+	var all uint8
+	for _, b := range strong {
+		all |= b
 	}
-	switch {
-	case needX && needY:
+	switch all {
+	case 3:
 		return LineXY
-	case needX:
+	case 1:
 		return LineX
-	case needY:
+	case 2:
 		return LineY
 	}
 	return PointGS

@@ -65,3 +65,16 @@ func (f *fineLevel) startBlocks(lo, hi int) {
 		}
 	}
 }
+
+// forRows calls fn for every row J in [0, n), the rows split into up to 64
+// blocks on run. It is for set-up: the closure allocates.
+func forRows(run func(n int, fn func(lo, hi int)), n int, fn func(J int)) {
+	blocks := min(64, n)
+	run(blocks, func(lo, hi int) {
+		for b := lo; b < hi; b++ {
+			for J := b * n / blocks; J < (b+1)*n/blocks; J++ {
+				fn(J)
+			}
+		}
+	})
+}
