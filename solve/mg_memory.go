@@ -30,7 +30,7 @@ func EstimateMemory(nx, ny int, m Method) int64 {
 }
 
 // multigridBytes returns what newMultigrid allocates: the finest level's
-// edge diagonals and row buffers; per coarse level eight padded
+// edge diagonals and per-block row buffers; per coarse level eight padded
 // vectors and the fixed marks; the interpolation weights of every level
 // that has a coarser one below it; and the band factor of the coarsest.
 func multigridBytes(nx, ny int) int64 {
@@ -38,7 +38,8 @@ func multigridBytes(nx, ny int) int64 {
 	b := int64(4096)
 	if min(nx, ny) > 3 {
 		ncx, ncy := int64((nx+1)/2), int64((ny+1)/2)
-		b += 2*ncx*ncy*f + 4*ncx*int64(min(64, int(ncy)))*f
+		blocks := int64(min(64, int(ncy)))
+		b += 2*ncx*ncy*f + 4*ncx*blocks*f + 9*int64(nx/2+1)*blocks*f
 	}
 	for min(nx, ny) > 3 {
 		ncx, ncy := (nx+1)/2, (ny+1)/2
