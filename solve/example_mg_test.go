@@ -10,8 +10,9 @@ import (
 	"github.com/phigrid/phigrid/solve"
 )
 
-// Set up a multigrid hierarchy once and use it for two right-hand sides:
-// full multigrid alone, then stand-alone V-cycles to the tolerance.
+// Set up the multigrid hierarchy of a pin over a dielectric block (1000:1)
+// and solve by stand-alone V-cycles, which start from full multigrid. The
+// same hierarchy would serve any further right-hand side.
 func ExampleMultigrid() {
 	p := &bc.Problem{
 		Domain:     bc.Rect{X1: 0.1, Y1: 0.1},
