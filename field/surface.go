@@ -17,13 +17,28 @@ import (
 // the conductor (a conductor above its surroundings' potential); Sigma the
 // surface charge density ε₀·ε_r·En in C/m², with ε_r of the dielectric at
 // the point.
-type SurfacePoint struct{ X, Y, Nx, Ny, En, Sigma float64 }
+//
+// Area is the part of the surface the point stands for, so that
+// Σ Sigma·Area over a conductor's points estimates its charge: a length
+// (m², per metre of depth) in a planar problem, an area of revolution
+// (m²) in an axisymmetric one. It is the face of the point's grid link,
+// the control-volume side across the link, divided by |n·d| for the link
+// direction d (halved where the links of both axes sample the surface).
+type SurfacePoint struct{ X, Y, Nx, Ny, En, Sigma, Area float64 }
 
 // Peak is the largest field magnitude found somewhere: Value in V/m at
 // (X, Y), and Where names the conductor or region it belongs to.
+//
+// Sharp is set when the peak lies within about two cells of a sharp
+// feature of a conductor: the end of a strip, a convex corner of a
+// rectangle or polygon, or a corner where a conductor side of the domain
+// meets a side at another potential (for a material's peak, of any
+// conductor). The field there is singular: its grid value grows without
+// bound under refinement and is not a converged figure.
 type Peak struct {
 	Value, X, Y float64
 	Where       string
+	Sharp       bool
 }
 
 // surfaceCache holds the potential corrected near conductor surfaces.
@@ -33,13 +48,14 @@ type surfaceCache struct {
 }
 
 // SurfaceField returns points on the surface of conductor k with the
-// normal field and the surface charge density there: one point for every
-// grid link that joins a free node to the conductor and crosses the surface
-// steeply enough (see below), at the point where the surface cuts the
-// link, in grid order. It returns nil when k is not a conductor index or
-// the conductor has no free neighbour. The first call computes a locally
-// corrected potential and caches it, so a Solution is not safe for
-// concurrent use.
+// normal field and the surface charge density there, one for every grid
+// link that joins a free node to the conductor, in grid order: at the
+// point where the surface cuts the link when it crosses the link steeply
+// enough (see below), and at the conductor node when the link has no
+// surface crossing (see Faces). It returns nil when k is not a conductor
+// index or the conductor has no free neighbour. The first call computes a
+// locally corrected potential and caches it, so a Solution is not safe
+// for concurrent use.
 //
 // # Method
 //
@@ -58,6 +74,28 @@ type surfaceCache struct {
 // difference is used. The normal comes from the geometry (bc.Map.Surface);
 // maps without it fall back to the link direction.
 //
+// # Faces
+//
+// Some conductor nodes have no surface crossing on their links: nodes of
+// a strip thinner than a cell (claimed because its centre line crosses
+// the node's control volume, or lying on a grid line with zero
+// thickness), nodes claimed as a conductor's anchor, and the nodes of a
+// side of the domain held by a conductor. The conductor's face then lies
+// on the grid line through the node: a link counts as such a face when no
+// surface cuts it short of the conductor node and the conductor has
+// little interior about that node (less than a quarter of a small circle
+// about it lies inside). Its surface point sits at the conductor node with the normal along the
+// link, toward the free node; En comes from the quadratic through the
+// conductor node, the free node and the next node on the same line when
+// that is free (second order), else from the two-point difference (first
+// order); and Sigma uses the permittivity the assembly gives the link
+// (bc.Map.EpsX, EpsY). A zero-thickness strip thus has points on both
+// faces, above and below, and Σ Sigma·Area over its points matches its
+// charge by the discrete Gauss law up to the truncation error of the
+// differences, which is largest at its edges.
+//
+// # Accuracy next to curved surfaces
+//
 // The one-sided difference needs potentials next to the surface that are
 // accurate beyond the O(h²) of the solve: the symmetric cut-link operator
 // is only first-order consistent at the nodes next to a curved surface, so
@@ -75,10 +113,7 @@ func (sol *Solution) SurfaceField(k int) []SurfacePoint {
 	}
 	phi := sol.surfacePhi()
 	var out []SurfacePoint
-	sol.eachSurfaceLink(func(l surfaceLink) {
-		if l.cond != k {
-			return
-		}
+	sol.eachSurfaceLink(k, func(l surfaceLink) {
 		if p, ok := sol.surfacePoint(l, phi); ok {
 			out = append(out, p)
 		}
@@ -162,24 +197,34 @@ type surfaceLink struct {
 	axis        int     // 0 along X, 1 along Y
 	dir         int     // +1 when the conductor node is at the higher index
 	theta       float64 // cut fraction from the free node
+	// face is set when no surface crosses the link: the conductor node is
+	// on the conductor's face (see onFace).
+	face bool
 	// Geometry from the map, when present.
 	x, y, nx, ny, eps float64
 	geom              bool
 }
 
-// eachSurfaceLink calls f for every link that joins a free node to a
-// conductor node.
-func (sol *Solution) eachSurfaceLink(f func(surfaceLink)) {
+// eachSurfaceLink calls f for every link that joins a free node to a node
+// of conductor k.
+func (sol *Solution) eachSurfaceLink(k int, f func(surfaceLink)) {
 	m := sol.Map
 	g := sol.Grid
 	nx, ny := g.Nx(), g.Ny()
+	regCond := regionConductors(m)
+	faces := make(map[int]bool)
 	if len(m.Surface) > 0 {
 		for _, c := range m.Surface {
-			f(surfaceLink{
+			if int(m.Cond[c.Node]) != k {
+				continue
+			}
+			l := surfaceLink{
 				free: int(c.Free), cnode: int(c.Node), cond: int(m.Cond[c.Node]),
 				axis: int(c.Axis), dir: int(c.Dir), theta: c.Frac,
 				x: c.X, y: c.Y, nx: c.Nx, ny: c.Ny, eps: c.EpsR, geom: true,
-			})
+			}
+			l.face = sol.onFace(l, regCond, faces)
+			f(l)
 		}
 		return
 	}
@@ -190,8 +235,10 @@ func (sol *Solution) eachSurfaceLink(f func(surfaceLink)) {
 				continue
 			}
 			try := func(c int, axis, dir int, theta float64) {
-				if m.Kind[c] == bc.OnConductor {
-					f(surfaceLink{free: n, cnode: c, cond: int(m.Cond[c]), axis: axis, dir: dir, theta: theta})
+				if m.Kind[c] == bc.OnConductor && int(m.Cond[c]) == k {
+					l := surfaceLink{free: n, cnode: c, cond: k, axis: axis, dir: dir, theta: theta}
+					l.face = sol.onFace(l, regCond, faces)
+					f(l)
 				}
 			}
 			if i+1 < nx {
@@ -224,6 +271,9 @@ const minNormalDot = 0.7
 // surfacePoint evaluates the normal field at the surface point of l from
 // the potential phi.
 func (sol *Solution) surfacePoint(l surfaceLink, phi []float64) (SurfacePoint, bool) {
+	if l.face {
+		return sol.facePoint(l, phi), true
+	}
 	g, m := sol.Grid, sol.Map
 	nx := g.Nx()
 	xs, ys := g.X(), g.Y()
@@ -291,43 +341,20 @@ func (sol *Solution) surfacePoint(l surfaceLink, phi []float64) (SurfacePoint, b
 	}
 	dphi := derivAt0(ss[:np], fs[:np])
 	en := -dphi / dot
-	if eps == 0 {
-		eps = sol.linkEps(l)
+	// The permittivity just outside the surface, from the geometry; where
+	// the link runs along a dielectric interface the flux splits between
+	// the two materials, and the assembly's mean over the face serves.
+	linkEps, area, mixed := sol.linkFace(l, sx)
+	if eps == 0 || mixed {
+		eps = linkEps
 	}
-	return SurfacePoint{X: sx, Y: sy, Nx: nvx, Ny: nvy, En: en, Sigma: solve.Eps0 * eps * en}, true
-}
-
-// linkEps returns the mean relative permittivity of the cells beside the
-// link of l.
-func (sol *Solution) linkEps(l surfaceLink) float64 {
-	g, m := sol.Grid, sol.Map
-	nx, ny := g.Nx(), g.Ny()
-	lo := l.free
-	if l.dir < 0 {
-		lo = l.cnode
+	// The links of this axis sample the surface at one point per face;
+	// where the other axis samples it too, each takes half.
+	area /= math.Abs(dot)
+	if math.Sqrt(max(0, 1-dot*dot)) >= minNormalDot {
+		area /= 2
 	}
-	i, j := lo%nx, lo/nx
-	var sum float64
-	var cnt int
-	if l.axis == 0 {
-		for _, cj := range []int{j - 1, j} {
-			if cj >= 0 && cj < ny-1 {
-				sum += m.Eps[g.CellIndex(i, cj)]
-				cnt++
-			}
-		}
-	} else {
-		for _, ci := range []int{i - 1, i} {
-			if ci >= 0 && ci < nx-1 {
-				sum += m.Eps[g.CellIndex(ci, j)]
-				cnt++
-			}
-		}
-	}
-	if cnt == 0 {
-		return 1
-	}
-	return sum / float64(cnt)
+	return SurfacePoint{X: sx, Y: sy, Nx: nvx, Ny: nvy, En: en, Sigma: solve.Eps0 * eps * en, Area: area}, true
 }
 
 // PeakSurfaceField returns the peak |En| on the surface of conductor k and
