@@ -18,14 +18,19 @@
 // SurfaceField gives the normal field and the surface charge density at
 // every point where a conductor surface crosses a grid link, from
 // one-sided differences along the grid line through the crossing, turned
-// into the normal field with the surface normal. PeakSurfaceField fits the
+// into the normal field with the surface normal, and on the faces that
+// lie on a grid line without crossing one (thin and zero-thickness
+// strips, the sides of the domain held by a conductor), both faces of a
+// strip included. Each point carries the piece of surface it stands for,
+// so Σ σ·Area estimates the conductor's charge. PeakSurfaceField fits the
 // samples near the largest one to locate the peak on each conductor, and
 // PeakRegionFields gives the peak in every dielectric material. The
 // potential next to the surface is first corrected toward the
 // Shortley–Weller discretisation: locally at no cost, or, after
 // RefineSurface, with one more solve, which makes surface fields converge
 // at second order on smooth bodies. Fields at sharp edges and corners are
-// singular and never converge; do not read a peak there.
+// singular and never converge; a Peak near one is marked Sharp, and its
+// value must not be read as a converged figure.
 //
 // # Error estimates
 //

@@ -360,7 +360,13 @@ func (sol *Solution) surfacePoint(l surfaceLink, phi []float64) (SurfacePoint, b
 // PeakSurfaceField returns the peak |En| on the surface of conductor k and
 // where it occurs, named after the conductor. A conductor without surface
 // points gives a zero Peak. Never trust a peak at a sharp edge or corner:
-// the field there grows without bound under refinement.
+// the field there grows without bound under refinement. Such a peak is
+// marked Sharp when it lies within two local cells of a strip's end, a
+// convex corner of a rectangle or polygon (interior angle below 175°), or
+// a corner where a side of the domain held by the conductor meets a side
+// at another potential; ends and corners on a symmetry plane that their
+// mirror image continues, and ends joined to an equipotential body, are
+// not edges.
 //
 // The peak is not simply the largest sample: the samples carry small
 // irregular errors (they sit at different distances from the grid), and
@@ -390,6 +396,8 @@ func (sol *Solution) PeakSurfaceField(k int) Peak {
 	if v, x, y, ok := sol.fitPeak(pts, best); ok {
 		pk.Value, pk.X, pk.Y = v, x, y
 	}
+	fs := sol.featureScene()
+	pk.Sharp = fs.nearSharp(sol.sharpFeatures(k, fs), pk.X, pk.Y)
 	return pk
 }
 
@@ -504,7 +512,9 @@ func solve3(m [3][4]float64) ([3]float64, bool) {
 // attributed to the material just outside the surface. Cells next to a
 // dielectric interface are left out, since their field straddles the jump;
 // the nearest values used lie one to two cells from the interface, so a
-// field that peaks on an interface is underestimated by O(h).
+// field that peaks on an interface is underestimated by O(h). A peak
+// within two cells of a sharp feature of any conductor (see
+// PeakSurfaceField) is marked Sharp.
 func (sol *Solution) PeakRegionFields() []Peak {
 	m, g := sol.Map, sol.Grid
 	names, slot := sol.regionSlots()
@@ -564,9 +574,15 @@ func (sol *Solution) PeakRegionFields() []Peak {
 			}
 		}
 	}
+	fs := sol.featureScene()
+	var feats []sharpFeature
+	for k := range m.Conductors {
+		feats = append(feats, sol.sharpFeatures(k, fs)...)
+	}
 	out := peaks[:0]
 	for i, p := range peaks {
 		if seen[i] {
+			p.Sharp = p.Value > 0 && fs.nearSharp(feats, p.X, p.Y)
 			out = append(out, p)
 		}
 	}
