@@ -161,6 +161,10 @@ type Peak struct {
 	// Field is |E| in V/m.
 	Field float64  `json:"field_V_per_m"`
 	At    Position `json:"at"`
+	// SharpEdge is set when the peak lies at a sharp edge or corner of a
+	// conductor (field.Peak.Sharp), where the field is singular: the
+	// value grows with refinement and is not a converged figure.
+	SharpEdge bool `json:"sharp_edge"`
 }
 
 // Convergence is a grid-convergence study: the problem solved on a
@@ -468,6 +472,7 @@ func (b *builder) pos(x, y float64) Position {
 // point, in grid order, whose |En| lies within round-off (tieTol) of the
 // largest, so that a uniform field, where every point is the peak, gives
 // a position that does not depend on the order of floating-point sums.
+// SharpEdge comes from field.PeakSurfaceField.
 func (b *builder) surfacePeak(k int) (Peak, bool) {
 	pts := b.sol.SurfaceField(k)
 	if len(pts) == 0 {
@@ -477,7 +482,7 @@ func (b *builder) surfacePeak(k int) (Peak, bool) {
 	for _, p := range pts {
 		top = math.Max(top, math.Abs(p.En))
 	}
-	pk := Peak{Where: b.sol.Map.Conductors[k].Name, Field: top}
+	pk := Peak{Where: b.sol.Map.Conductors[k].Name, Field: top, SharpEdge: b.sol.PeakSurfaceField(k).Sharp}
 	for _, p := range pts {
 		if math.Abs(p.En) >= top*(1-tieTol) {
 			pk.At = b.pos(p.X, p.Y)
@@ -499,7 +504,7 @@ func (b *builder) regionPeaks(bg string) []Peak {
 		if i == 0 && p.Where == "background" && bg != "" {
 			p.Where = bg
 		}
-		out = append(out, Peak{Where: p.Where, Field: p.Value, At: b.pos(p.X, p.Y)})
+		out = append(out, Peak{Where: p.Where, Field: p.Value, At: b.pos(p.X, p.Y), SharpEdge: p.Sharp})
 	}
 	return out
 }

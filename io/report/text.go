@@ -198,7 +198,7 @@ func (r *Report) writeConductors(w io.Writer) {
 		}
 		pk, at := "–", ""
 		if c.PeakField != nil {
-			pk, at = fieldStrength(c.PeakField.Field), r.at(c.PeakField.At)
+			pk, at = fieldStrength(c.PeakField.Field), r.at(c.PeakField.At)+sharpNote(c.PeakField)
 			shown = true
 		}
 		fmt.Fprintf(tw, "  %s\t%s\t%s\t%s\t%s\n", c.Name, v, eng(clean(c.Charge, qs), r.Units.Charge), pk, at)
@@ -207,6 +207,19 @@ func (r *Report) writeConductors(w io.Writer) {
 	if shown {
 		writeCaution(w)
 	}
+}
+
+// sharpText is printed after the position of a peak at a sharp edge or
+// corner.
+const sharpText = "at a sharp edge: grows with refinement, not a converged value"
+
+// sharpNote returns the note that follows the position of p, if any: a tab
+// and sharpText for a peak at a sharp edge.
+func sharpNote(p *Peak) string {
+	if !p.SharpEdge {
+		return ""
+	}
+	return "\t" + sharpText
 }
 
 func (r *Report) writeMatrix(w io.Writer) {
@@ -252,7 +265,7 @@ func (r *Report) writeRegions(w io.Writer) {
 	tw := table(w)
 	fmt.Fprintf(tw, "  material\tpeak |E|\tat %s\n", r.axes())
 	for _, p := range r.Regions {
-		fmt.Fprintf(tw, "  %s\t%s\t%s\n", p.Where, fieldStrength(p.Field), r.at(p.At))
+		fmt.Fprintf(tw, "  %s\t%s\t%s\n", p.Where, fieldStrength(p.Field), r.at(p.At)+sharpNote(&p))
 	}
 	tw.Flush()
 	writeCaution(w)
