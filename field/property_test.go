@@ -135,7 +135,7 @@ func TestSolversAgree(t *testing.T) {
 	diag := append([]float64(nil), sys.Diag...)
 	var ref []float64
 	results := map[string][]float64{}
-	for _, m := range []solve.Method{solve.CG, solve.SOR, solve.Default} {
+	for _, m := range []solve.Method{solve.CG, solve.SOR, solve.Default, solve.MG} {
 		for _, w := range []int{1, 2, 3} {
 			phi := make([]float64, sys.Len())
 			r, err := solve.Solve(context.Background(), sys, b, phi, &solve.Settings{Method: m, Tol: 1e-11, Workers: w})

@@ -61,7 +61,7 @@ func (c *cgSolver) Solve(ctx context.Context, b, x []float64) (*Result, error) {
 	} else {
 		_, rr = k.residual(r, b, x, nil)
 		c.precond(z, r)
-		rz = dot(r, z)
+		rz = k.dot(r, z)
 	}
 	res.Residual = math.Sqrt(rr) / bnorm
 	if res.Residual <= c.set.Tol {
@@ -90,9 +90,9 @@ func (c *cgSolver) Solve(ctx context.Context, b, x []float64) (*Result, error) {
 		if c.precond == nil {
 			rzNew, rr = k.update(alpha, x, p, r, q, z)
 		} else {
-			_, rr = k.update(alpha, x, p, r, q, z)
+			rr = k.step(alpha, x, p, r, q)
 			c.precond(z, r)
-			rzNew = dot(r, z)
+			rzNew = k.dot(r, z)
 		}
 		res.Iterations = it
 		res.Residual = math.Sqrt(rr) / bnorm
@@ -113,7 +113,7 @@ func (c *cgSolver) Solve(ctx context.Context, b, x []float64) (*Result, error) {
 				rzNew, _ = k.residual(r, b, x, z)
 			} else {
 				c.precond(z, r)
-				rzNew = dot(r, z)
+				rzNew = k.dot(r, z)
 			}
 			copy(p, z)
 			rz = rzNew

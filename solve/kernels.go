@@ -94,6 +94,7 @@ type kernels struct {
 	alpha            float64
 
 	applyFn, updateFn, directionFn, residualFn, sorFn func(lo, hi int)
+	stepFn, dotFn                                     func(lo, hi int)
 	color                                             int
 	omega                                             float64
 }
@@ -112,6 +113,8 @@ func newKernels(sys *System, workers int) *kernels {
 	k.directionFn = k.directionBlocks
 	k.residualFn = k.residualBlocks
 	k.sorFn = k.sorBlocks
+	k.stepFn = k.stepBlocks
+	k.dotFn = k.dotBlocks
 	return k
 }
 
@@ -162,6 +165,54 @@ func (k *kernels) updateBlocks(lo, hi int) {
 			rr += ri * ri
 		}
 		k.partA[b], k.partB[b] = rz, rr
+	}
+}
+
+// step performs x += α·p and r −= α·y and returns r·r: the update of a
+// preconditioned iteration, whose z comes from the preconditioner.
+func (k *kernels) step(alpha float64, x, p, r, y []float64) (rr float64) {
+	k.alpha, k.x, k.p, k.r, k.y = alpha, x, p, r, y
+	k.pool.For(k.blocks, k.stepFn)
+	return par.Sum(k.partB)
+}
+
+func (k *kernels) stepBlocks(lo, hi int) {
+	nx := k.sys.Nx
+	a := k.alpha
+	for b := lo; b < hi; b++ {
+		j0, j1 := k.rows(b)
+		i0, i1 := j0*nx, j1*nx
+		x, p, r, y := k.x[i0:i1], k.p[i0:i1], k.r[i0:i1], k.y[i0:i1]
+		p, r, y = p[:len(x)], r[:len(x)], y[:len(x)]
+		var rr float64
+		for i := range x {
+			x[i] += a * p[i]
+			ri := r[i] - a*y[i]
+			r[i] = ri
+			rr += ri * ri
+		}
+		k.partB[b] = rr
+	}
+}
+
+// dot returns x·y summed over the fixed row blocks in order.
+func (k *kernels) dot(x, y []float64) float64 {
+	k.x, k.y = x, y
+	k.pool.For(k.blocks, k.dotFn)
+	return par.Sum(k.partA)
+}
+
+func (k *kernels) dotBlocks(lo, hi int) {
+	nx := k.sys.Nx
+	for b := lo; b < hi; b++ {
+		j0, j1 := k.rows(b)
+		x, y := k.x[j0*nx:j1*nx], k.y[j0*nx:j1*nx]
+		y = y[:len(x)]
+		var s float64
+		for i := range x {
+			s += x[i] * y[i]
+		}
+		k.partA[b] = s
 	}
 }
 

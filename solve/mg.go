@@ -326,15 +326,14 @@ func (m *Multigrid) FMG(b, x []float64) {
 
 // Solve implements Solver by V-cycles until the relative residual over
 // free rows is at most Tol. When x is zero on every free row it starts from
-// FMG. The Result reports Method MGCG, the multigrid family, since Method
-// has no value of its own for stand-alone cycles.
+// FMG. The Result reports Method MG.
 func (m *Multigrid) Solve(ctx context.Context, b, x []float64) (*Result, error) {
 	sys, k := m.sys, m.k
 	if len(b) != sys.Len() || len(x) != sys.Len() {
 		panic("solve: right-hand side or start vector has the wrong length")
 	}
 	start := time.Now()
-	res := &Result{Method: MGCG, Setup: m.setup}
+	res := &Result{Method: MG, Setup: m.setup}
 	sys.setFixed(x, b)
 	bnorm := sys.freeNorm(b)
 	if bnorm == 0 {

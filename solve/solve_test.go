@@ -211,7 +211,7 @@ func TestSettingsErrors(t *testing.T) {
 	if _, err := ParseMethod("multigrid"); err == nil {
 		t.Error("unknown method name accepted")
 	}
-	for _, m := range []Method{SOR, CG, MGCG} {
+	for _, m := range []Method{SOR, CG, MGCG, MG} {
 		if got, err := ParseMethod(m.String()); err != nil || got != m {
 			t.Errorf("ParseMethod(%q) = %v, %v", m.String(), got, err)
 		}

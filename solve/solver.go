@@ -21,9 +21,12 @@ const (
 	CG
 	// MGCG is conjugate gradients preconditioned by a multigrid V-cycle.
 	MGCG
+	// MG is stand-alone multigrid: V-cycles from a full-multigrid start
+	// until the tolerance is met.
+	MG
 )
 
-var methodNames = map[Method]string{Default: "default", SOR: "sor", CG: "cg", MGCG: "mg-pcg"}
+var methodNames = map[Method]string{Default: "default", SOR: "sor", CG: "cg", MGCG: "mg-pcg", MG: "mg"}
 
 // String returns the method's name as used in model files and reports.
 func (m Method) String() string {
@@ -41,7 +44,7 @@ func ParseMethod(s string) (Method, error) {
 			return m, nil
 		}
 	}
-	return 0, fmt.Errorf("solve: unknown method %q; use sor, cg or mg-pcg", s)
+	return 0, fmt.Errorf("solve: unknown method %q; use mg-pcg, mg, cg or sor", s)
 }
 
 // Progress is what a progress callback sees after an iteration.
@@ -188,6 +191,8 @@ func NewSolver(sys *System, set *Settings) (Solver, error) {
 		return newCG(sys, o), nil
 	case Default, MGCG:
 		return newDefault(sys, o)
+	case MG:
+		return NewMultigrid(sys, &o)
 	}
 	return nil, fmt.Errorf("solve: unknown method %d", int(o.Method))
 }

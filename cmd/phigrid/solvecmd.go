@@ -58,7 +58,7 @@ Exit status: 0 on success, 1 when the solve fails, 2 on bad usage or input.`,
 			fs.StringVar(&o.out, "o", "", "write output files into `DIR`")
 			fs.BoolVar(&o.json, "json", false, "print the report as JSON instead of text")
 			fs.BoolVar(&o.quiet, "q", false, "no progress on stderr")
-			fs.StringVar(&o.method, "method", "", "override the model's solver: mg-pcg, cg or sor")
+			fs.StringVar(&o.method, "method", "", "override the model's solver: mg-pcg, mg, cg or sor")
 			fs.IntVar(&o.workers, "workers", 0, "limit the solver to `N` goroutines (0: all cores)")
 			fs.BoolVar(&o.noFiles, "no-files", false, "print the report only; write no files")
 			fs.IntVar(&o.errors, "errors", 0, "estimate errors from a study on `N` nested grids (2 or 3; 0: none)")

@@ -862,10 +862,10 @@ func (d *decoder) solver(raw *rawFile) error {
 	d.m.Solver = Solver{Method: "mg-pcg", Tol: DefaultTol}
 	if d.ix.has("solver.method") {
 		switch s.Method {
-		case "mg-pcg", "cg", "sor":
+		case "mg-pcg", "mg", "cg", "sor":
 			d.m.Solver.Method = s.Method
 		default:
-			return d.schemaAt("solver.method", `unknown solver %q; use "mg-pcg" (multigrid-preconditioned conjugate gradients, the default), "cg" or "sor"`, s.Method)
+			return d.schemaAt("solver.method", `unknown solver %q; use "mg-pcg" (multigrid-preconditioned conjugate gradients, the default), "mg" (multigrid cycles), "cg" or "sor"`, s.Method)
 		}
 	}
 	if d.ix.has("solver.tolerance") {

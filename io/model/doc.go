@@ -375,7 +375,8 @@
 // # [solver]
 //
 //	method          string  "mg-pcg" (default: conjugate gradients preconditioned by
-//	                        multigrid), "cg" (Jacobi-preconditioned) or "sor"
+//	                        multigrid), "mg" (multigrid V-cycles), "cg"
+//	                        (Jacobi-preconditioned) or "sor"
 //	tolerance       number  relative residual in (0, 1) (default 1e-10)
 //	max_iterations  number  whole ≥ 1 (default: the solver's own limit)
 //

@@ -22,7 +22,7 @@ type Unit struct {
 // Solver is the solver choice of a model. The command layer maps it onto
 // the settings of package solve.
 type Solver struct {
-	// Method is "mg-pcg" (the default), "cg" or "sor".
+	// Method is "mg-pcg" (the default), "mg", "cg" or "sor".
 	Method string
 	// Tol is the relative-residual tolerance, in (0, 1). Default 1e-10.
 	Tol float64
