@@ -62,7 +62,8 @@ func localStep(g *grid.Grid, x, y float64) float64 {
 }
 
 // surface returns the surface elements of every conductor: the outline
-// runs of its regions that face a dielectric, and its sides of the
+// runs of its regions that face a dielectric, both faces and the ends of
+// its strips thinner than the scene draws them, and its sides of the
 // domain. The charge of an element comes from the normal field half a
 // cell outside it.
 func (t *tracer) surface(seg float64) [][]surfaceElement {
@@ -98,6 +99,30 @@ func (t *tracer) surface(seg float64) [][]surfaceElement {
 				continue
 			}
 			add(b.cond, a, c, (c.y-a.y)/l, -(c.x-a.x)/l)
+		}
+	}
+	// A strip thinner than the scene's strips has no outline run of its
+	// own; its surface is the outline of the strip as the scene sees it,
+	// where that belongs to the strip's conductor.
+	for n, r := range t.p.Regions {
+		st, ok := r.Shape.(bc.Strip)
+		k := t.sc.condIdx[n]
+		if !ok || k < 0 || t.sc.stripHalf <= 0.5*st.Thickness {
+			continue
+		}
+		rg := subdivide(stripRing(st, 2*t.sc.stripHalf), seg)
+		for i := range rg {
+			a, c := rg[i], rg[(i+1)%len(rg)]
+			l := math.Hypot(c.x-a.x, c.y-a.y)
+			if l == 0 {
+				continue
+			}
+			nx, ny := (c.y-a.y)/l, -(c.x-a.x)/l
+			in := 0.5 * t.sc.stripHalf
+			if t.sc.at(0.5*(a.x+c.x)-in*nx, 0.5*(a.y+c.y)-in*ny).cond != k {
+				continue // hidden by a later region
+			}
+			add(k, a, c, nx, ny)
 		}
 	}
 	d := t.p.Domain
