@@ -18,7 +18,11 @@
 // the peak field per material (field.Solution.PeakRegionFields). Where a
 // peak ties within round-off, as in a uniform field, the conductor peak
 // lies at the first tying surface point in grid order, so the position
-// does not change from run to run.
+// does not change from run to run. A peak within about two cells of a
+// sharp edge or corner of a conductor (field.Peak.Sharp) has SharpEdge
+// set, and WriteText prints a note beside its position: the field there is
+// singular, so its value grows with refinement and is not a converged
+// figure.
 //
 // # Renderings
 //
