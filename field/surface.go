@@ -211,7 +211,7 @@ func (sol *Solution) eachSurfaceLink(k int, f func(surfaceLink)) {
 	m := sol.Map
 	g := sol.Grid
 	nx, ny := g.Nx(), g.Ny()
-	regCond := regionConductors(m)
+	rs := newRegions(m)
 	faces := make(map[int]bool)
 	if len(m.Surface) > 0 {
 		for _, c := range m.Surface {
@@ -223,7 +223,7 @@ func (sol *Solution) eachSurfaceLink(k int, f func(surfaceLink)) {
 				axis: int(c.Axis), dir: int(c.Dir), theta: c.Frac,
 				x: c.X, y: c.Y, nx: c.Nx, ny: c.Ny, eps: c.EpsR, geom: true,
 			}
-			l.face = sol.onFace(l, regCond, faces)
+			l.face = sol.onFace(l, rs, faces)
 			f(l)
 		}
 		return
@@ -237,7 +237,7 @@ func (sol *Solution) eachSurfaceLink(k int, f func(surfaceLink)) {
 			try := func(c int, axis, dir int, theta float64) {
 				if m.Kind[c] == bc.OnConductor && int(m.Cond[c]) == k {
 					l := surfaceLink{free: n, cnode: c, cond: k, axis: axis, dir: dir, theta: theta}
-					l.face = sol.onFace(l, regCond, faces)
+					l.face = sol.onFace(l, rs, faces)
 					f(l)
 				}
 			}

@@ -21,44 +21,56 @@ import (
 // conductor node that onFace tests for conductor interior.
 const faceSamples = 48
 
-// regionConductors returns the conductor index of every region of the
-// map: the index for conductor regions, −1 for the others.
-func regionConductors(m *bc.Map) []int {
+// regions holds what the pointwise rule of the rasteriser needs about
+// the map's regions: the conductor of each (−1 for the others) and its
+// bounding box.
+type regions struct {
+	m    *bc.Map
+	cond []int
+	box  [][4]float64
+}
+
+func newRegions(m *bc.Map) *regions {
 	idx := make(map[string]int, len(m.Conductors))
 	for k, c := range m.Conductors {
 		if _, ok := idx[c.Name]; !ok {
 			idx[c.Name] = k
 		}
 	}
-	out := make([]int, len(m.Regions))
+	rs := &regions{m: m, cond: make([]int, len(m.Regions)), box: make([][4]float64, len(m.Regions))}
 	for n, r := range m.Regions {
-		out[n] = -1
+		rs.cond[n] = -1
 		if r.Kind == bc.ConductorRegion {
 			if k, ok := idx[r.Conductor]; ok {
-				out[n] = k
+				rs.cond[n] = k
 			}
 		}
+		if r.Shape != nil {
+			x0, y0, x1, y1 := r.Shape.Bounds()
+			rs.box[n] = [4]float64{x0, y0, x1, y1}
+		}
 	}
-	return out
+	return rs
 }
 
-// conductorAt returns the conductor whose region covers (x, y) once every
-// region has been applied in order (the rasteriser's pointwise rule), or
-// −1. In an axisymmetric problem a point at r < 0 is its mirror image.
-// regCond comes from regionConductors.
-func conductorAt(m *bc.Map, regCond []int, x, y float64) int {
-	if m.Grid.Metric() == grid.Axisymmetric && x < 0 {
+// at returns the conductor whose region covers (x, y) once every region
+// but skip (−1 for none) has been applied in order (the rasteriser's
+// pointwise rule), or −1. In an axisymmetric problem a point at r < 0 is
+// its mirror image.
+func (rs *regions) at(x, y float64, skip int) int {
+	if rs.m.Grid.Metric() == grid.Axisymmetric && x < 0 {
 		x = -x
 	}
 	c := -1
-	for n := range m.Regions {
-		r := &m.Regions[n]
-		if r.Shape == nil || !r.Shape.Contains(x, y) {
+	for n := range rs.m.Regions {
+		r := &rs.m.Regions[n]
+		b := &rs.box[n]
+		if n == skip || r.Shape == nil || x < b[0] || x > b[2] || y < b[1] || y > b[3] || !r.Shape.Contains(x, y) {
 			continue
 		}
 		switch r.Kind {
 		case bc.ConductorRegion:
-			c = regCond[n]
+			c = rs.cond[n]
 		case bc.Dielectric, bc.Charge:
 			c = -1
 		}
@@ -80,7 +92,7 @@ func conductorAt(m *bc.Map, regCond []int, x, y float64) int {
 // (a rectangle's edge or corner on a grid line, a circle touching the
 // node, a node snapped onto a curved surface) and the crossing with its
 // geometric normal serves. cache holds the answer per conductor node.
-func (sol *Solution) onFace(l surfaceLink, regCond []int, cache map[int]bool) bool {
+func (sol *Solution) onFace(l surfaceLink, rs *regions, cache map[int]bool) bool {
 	if l.theta < 1-1e-9 {
 		return false
 	}
@@ -107,7 +119,7 @@ func (sol *Solution) onFace(l surfaceLink, regCond []int, cache map[int]bool) bo
 	in := 0
 	for s := range faceSamples {
 		sn, cs := math.Sincos((float64(s) + 0.5) * 2 * math.Pi / faceSamples)
-		if conductorAt(sol.Map, regCond, x+rad*cs, y+rad*sn) == l.cond {
+		if rs.at(x+rad*cs, y+rad*sn, -1) == l.cond {
 			in++
 		}
 	}

@@ -34,7 +34,7 @@ type sharpFeature struct{ x, y float64 }
 // conductor beyond a fixed side.
 type featureScene struct {
 	sol            *Solution
-	regCond        []int
+	rs             *regions
 	x0, y0, x1, y1 float64
 	tol            float64 // length below which two positions coincide
 }
@@ -42,7 +42,7 @@ type featureScene struct {
 func (sol *Solution) featureScene() *featureScene {
 	x0, y0, x1, y1 := sol.Grid.Bounds()
 	return &featureScene{
-		sol: sol, regCond: regionConductors(sol.Map),
+		sol: sol, rs: newRegions(sol.Map),
 		x0: x0, y0: y0, x1: x1, y1: y1,
 		tol: 1e-9 * math.Max(x1-x0, y1-y0),
 	}
@@ -110,21 +110,7 @@ func (fs *featureScene) at(x, y float64, skip int) int {
 			y = 2*fs.y1 - y
 		}
 	}
-	m := fs.sol.Map
-	c := -1
-	for n := range m.Regions {
-		r := &m.Regions[n]
-		if n == skip || r.Shape == nil || !r.Shape.Contains(x, y) {
-			continue
-		}
-		switch r.Kind {
-		case bc.ConductorRegion:
-			c = fs.regCond[n]
-		case bc.Dielectric, bc.Charge:
-			c = -1
-		}
-	}
-	return c
+	return fs.rs.at(x, y, skip)
 }
 
 // equipotential returns which conductors are at the potential of
@@ -180,8 +166,8 @@ func (fs *featureScene) crowded(x, y, rad float64, n int) bool {
 		if o == n || r.Shape == nil {
 			continue
 		}
-		bx0, by0, bx1, by1 := r.Shape.Bounds()
-		if x >= bx0-rad && x <= bx1+rad && y >= by0-rad && y <= by1+rad {
+		b := &fs.rs.box[o]
+		if x >= b[0]-rad && x <= b[2]+rad && y >= b[1]-rad && y <= b[3]+rad {
 			return true
 		}
 	}
@@ -208,7 +194,7 @@ func (sol *Solution) sharpFeatures(k int, fs *featureScene) []sharpFeature {
 	eq := fs.equipotential(k)
 	var out []sharpFeature
 	for n, r := range m.Regions {
-		if fs.regCond[n] != k || r.Shape == nil {
+		if fs.rs.cond[n] != k || r.Shape == nil {
 			continue
 		}
 		switch s := r.Shape.(type) {
