@@ -48,14 +48,14 @@ type surfaceCache struct {
 }
 
 // SurfaceField returns points on the surface of conductor k with the
-// normal field and the surface charge density there, one for every grid
-// link that joins a free node to the conductor, in grid order: at the
-// point where the surface cuts the link when it crosses the link steeply
-// enough (see below), and at the conductor node when the link has no
-// surface crossing (see Faces). It returns nil when k is not a conductor
-// index or the conductor has no free neighbour. The first call computes a
-// locally corrected potential and caches it, so a Solution is not safe
-// for concurrent use.
+// normal field and the surface charge density there, in grid order: one
+// for every grid link that joins a free node to the conductor, at the
+// point where the surface cuts the link (links that run obliquely to the
+// surface left out, see below), or at the conductor node when the link
+// has no surface crossing (see Faces). It returns nil when k is not a
+// conductor index or the conductor has no free neighbour. The first call
+// computes a locally corrected potential and caches it, so a Solution is
+// not safe for concurrent use.
 //
 // # Method
 //
@@ -71,8 +71,10 @@ type surfaceCache struct {
 // (|n·d| < 0.7) would amplify the error and are left out; the links of the
 // other axis cover those parts of the surface. Where the line has no
 // further point (the free node lies on the outer boundary) the two-point
-// difference is used. The normal comes from the geometry (bc.Map.Surface);
-// maps without it fall back to the link direction.
+// difference is used. The normal and the permittivity just outside come
+// from the geometry (bc.Map.Surface); maps without it fall back to the
+// link direction and to the permittivity the assembly gives the link,
+// which also serves where the link runs along a dielectric interface.
 //
 // # Faces
 //
@@ -84,12 +86,12 @@ type surfaceCache struct {
 // on the grid line through the node: a link counts as such a face when no
 // surface cuts it short of the conductor node and the conductor has
 // little interior about that node (less than a quarter of a small circle
-// about it lies inside). Its surface point sits at the conductor node with the normal along the
-// link, toward the free node; En comes from the quadratic through the
-// conductor node, the free node and the next node on the same line when
-// that is free (second order), else from the two-point difference (first
-// order); and Sigma uses the permittivity the assembly gives the link
-// (bc.Map.EpsX, EpsY). A zero-thickness strip thus has points on both
+// about it lies inside). Its surface point sits at the conductor node
+// with the normal along the link, toward the free node; En comes from the
+// quadratic through the conductor node, the free node and the next node on
+// the same line when that is free (second order), else from the two-point
+// difference (first order); and Sigma uses the permittivity the assembly
+// gives the link (bc.Map.EpsX, EpsY). A zero-thickness strip thus has points on both
 // faces, above and below, and Σ Sigma·Area over its points matches its
 // charge by the discrete Gauss law up to the truncation error of the
 // differences, which is largest at its edges.
