@@ -56,11 +56,45 @@ func TestHelpAndVersion(t *testing.T) {
 	}
 }
 
+var exampleNames = []string{"coax", "twinax", "microstrip", "bushing", "touchpad", "sphere"}
+
 func TestCheckExamples(t *testing.T) {
-	for _, name := range []string{"coax", "twinax", "microstrip", "bushing", "touchpad"} {
+	for _, name := range exampleNames {
 		code, out, errs := runCLI(t, "check", example(name))
 		if code != exitOK || !strings.Contains(out, "model is valid") || !strings.Contains(out, "memory") {
 			t.Errorf("check %s: exit %d\n%s%s", name, code, out, errs)
+		}
+	}
+}
+
+// TestSolveExamples solves every shipped example through the command and
+// checks the JSON report: converged, one capacitance row per conductor,
+// symmetric within the tolerance, with the safety caution present.
+func TestSolveExamples(t *testing.T) {
+	for _, name := range exampleNames {
+		code, out, errs := runCLI(t, "solve", "-q", "--json", "--no-files", example(name))
+		if code != exitOK {
+			t.Errorf("%s: exit %d: %s", name, code, errs)
+			continue
+		}
+		r, err := report.ReadJSON(strings.NewReader(out))
+		if err != nil {
+			t.Errorf("%s: %v", name, err)
+			continue
+		}
+		if r.Solver.Status != "converged" || r.Caution == "" {
+			t.Errorf("%s: status %q, caution %q", name, r.Solver.Status, r.Caution)
+		}
+		for i, ci := range r.Conductors {
+			if len(ci.Capacitance) != len(r.Conductors) || !(ci.Capacitance[i] > 0) {
+				t.Errorf("%s: conductor %s has capacitance row %v", name, ci.Name, ci.Capacitance)
+				continue
+			}
+			for j, cj := range r.Conductors {
+				if d := math.Abs(ci.Capacitance[j] - cj.Capacitance[i]); d > 1e-6*ci.Capacitance[i] {
+					t.Errorf("%s: C[%d][%d] = %g but C[%d][%d] = %g", name, i, j, ci.Capacitance[j], j, i, cj.Capacitance[i])
+				}
+			}
 		}
 	}
 }
