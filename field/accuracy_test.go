@@ -147,14 +147,14 @@ func TestDirectionalPermittivityExactForLayers(t *testing.T) {
 		want   float64 // C' in F/m
 	}{
 		{
-			// source: REFERENCES P02(a), C' = ε0·w/(d1/εr1 + d2/εr2); 0.45 mm of εr = 4.4 on the
+			// source: Griffiths, Introduction to Electrodynamics (D_n and E_t continuity) [case P02a], C' = ε0·w/(d1/εr1 + d2/εr2); 0.45 mm of εr = 4.4 on the
 			// 0 V plate is off the grid lines (h = 0.1 mm)
 			name:   "series",
 			layers: []bc.Region{{Kind: bc.Dielectric, Shape: bc.Rect{X1: w, Y1: 0.00045}, EpsR: 4.4}},
 			want:   eps0 * w / (0.00045/4.4 + 0.00055),
 		},
 		{
-			// source: REFERENCES P02(b), C' = ε0(εr1w1 + εr2w2)/d; 4.35 mm of air beside εr = 4.4
+			// source: Griffiths, Introduction to Electrodynamics (D_n and E_t continuity) [case P02b], C' = ε0(εr1w1 + εr2w2)/d; 4.35 mm of air beside εr = 4.4
 			name:   "side by side",
 			layers: []bc.Region{{Kind: bc.Dielectric, Shape: bc.Rect{X0: 0.00435, X1: w, Y1: d}, EpsR: 4.4}},
 			want:   eps0 * (0.00435 + 4.4*(w-0.00435)) / d,
@@ -199,13 +199,13 @@ func TestDirectionalPermittivityBeatsCellMean(t *testing.T) {
 		{
 			name: "P04b two-layer coax", p: twoLayer, hs: []float64{0.1 * mm, 0.05 * mm, 0.025 * mm},
 			value: func(s *Solution) float64 { return s.Charges()[0] },
-			// source: REFERENCES P04(b), C' = 2πε0/[ln(c/a)/εr1 + ln(b/c)/εr2] (Ramo et al.)
+			// source: Ramo, Whinnery & Van Duzer, Fields and Waves in Communication Electronics, 1994 [case P04b], C' = 2πε0/[ln(c/a)/εr1 + ln(b/c)/εr2] (Ramo et al.)
 			want: 96.124959e-12, tol: 1e-3, source: "P04b",
 		},
 		{
 			name: "P13a dielectric rod", p: rod, hs: []float64{0.5 * mm, 0.25 * mm, 0.125 * mm},
 			value: func(s *Solution) float64 { ex, _, _ := s.FieldAt(0, 0); return ex },
-			// source: REFERENCES P13a, E_in = 2E0/(εr+1) = 400 V/m (2-D analogue of Jackson §4.4)
+			// source: Jackson, Classical Electrodynamics, 1999, §4.4, 2-D analogue (from memory) [case P13a], E_in = 2E0/(εr+1) = 400 V/m (2-D analogue of Jackson §4.4)
 			want: 400, tol: 5e-3, source: "P13a",
 		},
 	} {
@@ -233,7 +233,7 @@ func TestDirectionalPermittivityBeatsCellMean(t *testing.T) {
 // across the gap give C' within 0.05 %.
 func TestCoaxThreeHalvings(t *testing.T) {
 	const mm = 1e-3
-	// source: REFERENCES P04(a), C' = 2πε0/ln(b/a) (Ramo, Whinnery & Van Duzer)
+	// source: Ramo, Whinnery & Van Duzer, Fields and Waves in Communication Electronics, 1994 [case P04a], C' = 2πε0/ln(b/a) (Ramo, Whinnery & Van Duzer)
 	const want = 50.638886e-12
 	p := coaxFull(1*mm, 3*mm, 0, 3.2*mm)
 	gaps := []int{10, 20, 40, 80}

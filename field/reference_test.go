@@ -11,7 +11,7 @@ import (
 	"github.com/phigrid/phigrid/grid"
 )
 
-// Reference cases of REFERENCES.md solved as convergence studies: on every
+// Published reference cases solved as convergence studies: on every
 // case the finest grid must meet the accuracy target and the reported
 // error band must contain the closed-form value.
 
@@ -193,13 +193,13 @@ func TestReferenceCases(t *testing.T) {
 				return p, ladder(t, p, 0.2*mm, 3)
 			},
 			checks: []check{
-				// source: REFERENCES P04(a), C' = 2πε0/ln(b/a) (Ramo, Whinnery & Van Duzer, Fields and Waves in Communication Electronics)
+				// source: Ramo, Whinnery & Van Duzer, Fields and Waves in Communication Electronics, 1994 [case P04a], C' = 2πε0/ln(b/a) (Ramo, Whinnery & Van Duzer, Fields and Waves in Communication Electronics)
 				{"C(inner,inner)", 1, 50.638886 * pF, 5e-4, 1.8, "P04a"},
-				// source: REFERENCES P04(a), E(a) = V/(a ln(b/a))
+				// source: Ramo, Whinnery & Van Duzer, Fields and Waves in Communication Electronics, 1994 [case P04a], E(a) = V/(a ln(b/a))
 				{"Esurf(inner)", 1, 910.23923, 5e-3, 0, "P04a"},
-				// source: REFERENCES P04(a), E(b) = V/(b ln(b/a))
+				// source: Ramo, Whinnery & Van Duzer, Fields and Waves in Communication Electronics, 1994 [case P04a], E(b) = V/(b ln(b/a))
 				{"Esurf(outer)", 1, 303.41308, 5e-3, 0, "P04a"},
-				// source: REFERENCES P04(a), W' = C'V²/2
+				// source: Ramo, Whinnery & Van Duzer, Fields and Waves in Communication Electronics, 1994 [case P04a], W' = C'V²/2
 				{"W", 1, 0.5 * 50.638886 * pF, 5e-4, 1.8, "P04a"},
 			},
 		},
@@ -211,9 +211,9 @@ func TestReferenceCases(t *testing.T) {
 				return p, ladder(t, p, 0.1*mm, 3)
 			},
 			checks: []check{
-				// source: REFERENCES P05, C' = 2πε/arccosh[(a²+b²−e²)/(2ab)] (Smythe, Static and Dynamic Electricity, 1968, ch. 4, from memory)
+				// source: Smythe, Static and Dynamic Electricity, 1968, ch. 4 (from memory) [case P05], C' = 2πε/arccosh[(a²+b²−e²)/(2ab)] (Smythe, Static and Dynamic Electricity, 1968, ch. 4, from memory)
 				{"C(inner,inner)", 1, 57.804588 * pF, 1e-3, 0, "P05"},
-				// source: REFERENCES P05, |E| on the inner conductor, narrow-gap side
+				// source: Smythe, Static and Dynamic Electricity, 1968, ch. 4 (from memory) [case P05], |E| on the inner conductor, narrow-gap side
 				{"Esurf(inner)", 1, 1394.0231, 1e-2, 0, "P05"},
 			},
 		},
@@ -226,10 +226,10 @@ func TestReferenceCases(t *testing.T) {
 			mesh:   &bc.Mesh{Cell: 0.5 * mm, Refine: 4},
 			levels: 3,
 			checks: []check{
-				// source: REFERENCES P06(a), C' = πε/arccosh(D/2a) (Smythe 1968; Ramo et al.); the quarter
+				// source: Smythe, Static and Dynamic Electricity, 1968 (from memory) [case P06a], C' = πε/arccosh(D/2a) (Smythe 1968; Ramo et al.); the quarter
 				// carries half the wire's charge, and the wires differ by 1 V
 				{"Q(wire)", 2, 12.133950 * pF, 1e-3, 0, "P06a"},
-				// source: REFERENCES P06(a), E_max = 267.12789 V/m at 1 V between the wires
+				// source: Smythe, Static and Dynamic Electricity, 1968 (from memory) [case P06a], E_max = 267.12789 V/m at 1 V between the wires
 				{"Esurf(wire)", 1, 267.12789, 1e-2, 0, "P06a"},
 			},
 		},
@@ -242,9 +242,9 @@ func TestReferenceCases(t *testing.T) {
 			mesh:   &bc.Mesh{Cell: 2 * mm, Refine: 4},
 			levels: 3,
 			checks: []check{
-				// source: REFERENCES A01(c), C = 4πε0R (Jackson, Classical Electrodynamics)
+				// source: Jackson, Classical Electrodynamics, 3rd ed., 1999 [case A01c], C = 4πε0R (Jackson, Classical Electrodynamics)
 				{"C(sphere,sphere)", 1, 1.1126501 * pF, 2e-3, 0, "A01c"},
-				// source: REFERENCES A01(c), E = V/R = 100 V/m
+				// source: Jackson, Classical Electrodynamics, 3rd ed., 1999 [case A01c], E = V/R = 100 V/m
 				{"Esurf(sphere)", 1, 100, 1e-2, 0, "A01c"},
 			},
 		},
@@ -258,9 +258,9 @@ func TestReferenceCases(t *testing.T) {
 			mesh:   &bc.Mesh{Cell: 2 * mm, Refine: 4},
 			levels: 3,
 			checks: []check{
-				// source: REFERENCES A04(a), C = 4πε0·√(a²−c²)/arccos(c/a) (Landau & Lifshitz ECM §4, from memory)
+				// source: Landau & Lifshitz, Electrodynamics of Continuous Media, §4 (from memory) [case A04a], C = 4πε0·√(a²−c²)/arccos(c/a) (Landau & Lifshitz ECM §4, from memory)
 				{"C(spheroid,spheroid)", 1, 0.92015419 * pF, 2e-3, 0, "A04a"},
-				// source: REFERENCES A04(a), E_rim = CV/(4πε0·a·c), from σ on an ellipsoid
+				// source: Landau & Lifshitz, Electrodynamics of Continuous Media, §4 (from memory) [case A04a], E_rim = CV/(4πε0·a·c), from σ on an ellipsoid
 				{"Esurf(spheroid)", 1, 165.39867, 1e-2, 0, "A04a"},
 			},
 		},
@@ -274,9 +274,9 @@ func TestReferenceCases(t *testing.T) {
 			mesh:   &bc.Mesh{Cell: 2 * mm, Refine: 4},
 			levels: 3,
 			checks: []check{
-				// source: REFERENCES A04(b), C = 4πε0·f/artanh(f/a), f = √(a²−b²) (Landau & Lifshitz ECM §4, from memory)
+				// source: Landau & Lifshitz, Electrodynamics of Continuous Media, §4 (from memory) [case A04b], C = 4πε0·f/artanh(f/a), f = √(a²−b²) (Landau & Lifshitz ECM §4, from memory)
 				{"C(spheroid,spheroid)", 1, 1.0441983 * pF, 2e-3, 0, "A04b"},
-				// source: REFERENCES A04(b), E_tip = CV/(4πε0·b²)
+				// source: Landau & Lifshitz, Electrodynamics of Continuous Media, §4 (from memory) [case A04b], E_tip = CV/(4πε0·b²)
 				{"Esurf(spheroid)", 1, 375.39147, 1e-2, 0, "A04b"},
 			},
 		},
@@ -288,9 +288,9 @@ func TestReferenceCases(t *testing.T) {
 				return p, ladder(t, p, 1*mm, 3)
 			},
 			checks: []check{
-				// source: REFERENCES A01(a), C = 4πε ab/(b−a) (Jackson; Griffiths)
+				// source: Jackson, Classical Electrodynamics, 3rd ed., 1999 [case A01a], C = 4πε ab/(b−a) (Jackson; Griffiths)
 				{"C(inner,inner)", 1, 2.2253001 * pF, 1e-3, 0, "A01a"},
-				// source: REFERENCES A01(a), E(a) = 200 V/m
+				// source: Jackson, Classical Electrodynamics, 3rd ed., 1999 [case A01a], E(a) = 200 V/m
 				{"Esurf(inner)", 1, 200, 1e-2, 0, "A01a"},
 			},
 		},
@@ -302,11 +302,11 @@ func TestReferenceCases(t *testing.T) {
 				return p, ladder(t, p, 1*mm, 3)
 			},
 			checks: []check{
-				// source: REFERENCES A07, W = ½[4πρ²a⁵/(45ε0) + Qφ(a)] (Gauss's law)
+				// source: Gauss's law (Griffiths, Introduction to Electrodynamics) [case A07], W = ½[4πρ²a⁵/(45ε0) + Qφ(a)] (Gauss's law)
 				{"W", 1, 7.8847627 * pF, 1e-3, 0, "A07"},
-				// source: REFERENCES A07, the shell carries −Q = −4πa³ρ/3
+				// source: Gauss's law (Griffiths, Introduction to Electrodynamics) [case A07], the shell carries −Q = −4πa³ρ/3
 				{"Q(shell)", 1, -4.1887902 * pF, 1e-3, 0, "A07"},
-				// source: REFERENCES A07, φ(0) = ρa²/(6ε0) + φ(a)
+				// source: Gauss's law (Griffiths, Introduction to Electrodynamics) [case A07], φ(0) = ρa²/(6ε0) + φ(a)
 				{"phi(0,0)", 1, 4.8941060, 1e-3, 0, "A07"},
 			},
 		},
@@ -318,12 +318,12 @@ func TestReferenceCases(t *testing.T) {
 				return p, ladder(t, p, 0.5*mm, 3)
 			},
 			checks: []check{
-				// source: REFERENCES P13a, E_in = 2E0/(εr+1) = 400 V/m, uniform inside (2-D analogue of Jackson §4.4)
+				// source: Jackson, Classical Electrodynamics, 1999, §4.4, 2-D analogue (from memory) [case P13a], E_in = 2E0/(εr+1) = 400 V/m, uniform inside (2-D analogue of Jackson §4.4)
 				{"Ex(0,0)", 1, 400, 5e-3, 0, "P13a"},
-				// source: REFERENCES P13a, the peak inside the rod is the uniform interior field; it sits next to
+				// source: Jackson, Classical Electrodynamics, 1999, §4.4, 2-D analogue (from memory) [case P13a], the peak inside the rod is the uniform interior field; it sits next to
 				// the interface, where the five-point operator is first order, so only the band is checked
 				{"Emax(rod)", 1, 400, 2e-2, 0, "P13a"},
-				// source: REFERENCES P13a, just outside at θ = 0: 1600 V/m; the cells next to the interface are
+				// source: Jackson, Classical Electrodynamics, 1999, §4.4, 2-D analogue (from memory) [case P13a], just outside at θ = 0: 1600 V/m; the cells next to the interface are
 				// left out of the peak, so only the band is checked
 				{"Emax(background)", 1, 1600, 5e-2, 0, "P13a"},
 			},
@@ -336,7 +336,7 @@ func TestReferenceCases(t *testing.T) {
 				return p, ladder(t, p, 0.5*mm, 3)
 			},
 			checks: []check{
-				// source: REFERENCES P13b, surface E = 2E0·cos θ (Jackson §4.4 analogue; Smythe 1968)
+				// source: Jackson, Classical Electrodynamics, 1999, §4.4, 2-D analogue (from memory) [case P13b], surface E = 2E0·cos θ (Jackson §4.4 analogue; Smythe 1968)
 				{"Esurf(cylinder)", 1, 2000, 1e-2, 0, "P13b"},
 			},
 		},

@@ -8,7 +8,7 @@ import (
 )
 
 // This file finds the sharp features of conductors, where the field is
-// singular (REFERENCES §4.2: it grows like ρ^(−1/2) at a knife edge and
+// singular (it grows like ρ^(−1/2) at a knife edge and
 // like ρ^(−1/3) at a convex right-angled corner), so that a peak found
 // next to one can be marked as not converged.
 

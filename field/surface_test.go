@@ -29,9 +29,9 @@ func TestSurfaceFieldCoax(t *testing.T) {
 		outward float64 // +1: normal along r̂; −1: against it
 		want    float64 // En in V/m
 	}{
-		// source: REFERENCES P04(a), E(a) = V/(a ln(b/a)) = 910.23923 V/m, whatever εr
+		// source: Ramo, Whinnery & Van Duzer, Fields and Waves in Communication Electronics, 1994 [case P04a], E(a) = V/(a ln(b/a)) = 910.23923 V/m, whatever εr
 		{0, a, 1, 910.23923},
-		// source: REFERENCES P04(a), E(b) = 303.41308 V/m, pointing into the outer conductor
+		// source: Ramo, Whinnery & Van Duzer, Fields and Waves in Communication Electronics, 1994 [case P04a], E(b) = 303.41308 V/m, pointing into the outer conductor
 		{1, b, -1, -303.41308},
 	} {
 		pts := sol.SurfaceField(c.k)
@@ -72,7 +72,7 @@ func TestRefineSurface(t *testing.T) {
 	worst := func() float64 {
 		var e float64
 		for _, s := range sol.SurfaceField(0) {
-			// source: REFERENCES P13b, surface E = 2E0·cos θ
+			// source: Jackson, Classical Electrodynamics, 1999, §4.4, 2-D analogue (from memory) [case P13b], surface E = 2E0·cos θ
 			e = math.Max(e, math.Abs(s.En-2000*s.Nx)/2000)
 		}
 		return e
@@ -126,9 +126,9 @@ func TestPeakSurfaceFieldLocation(t *testing.T) {
 		mirror bool    // the peak may be at (−x, y) too
 		tol    float64
 	}{
-		// source: REFERENCES P13b, E_max = 2E0 at θ = 0 and π
+		// source: Jackson, Classical Electrodynamics, 1999, §4.4, 2-D analogue (from memory) [case P13b], E_max = 2E0 at θ = 0 and π
 		{"P13b cylinder", cylinderInField(5*mm, 1000, 15*mm, 0), 0.25 * mm, 0, 2000, 5 * mm, 0, true, 1e-2},
-		// source: REFERENCES P05, 1394.0231 V/m on the narrow-gap side of the inner conductor
+		// source: Smythe, Static and Dynamic Electricity, 1968, ch. 4 (from memory) [case P05], 1394.0231 V/m on the narrow-gap side of the inner conductor
 		{"P05 eccentric coax", coaxFull(1*mm, 3*mm, 1*mm, 3.2*mm), 0.05 * mm, 0, 1394.0231, 2 * mm, 0, false, 1e-2},
 	} {
 		t.Run(c.name, func(t *testing.T) {
@@ -168,7 +168,7 @@ func TestPeakRegionFields(t *testing.T) {
 	}
 	g := mustGrid(t, uniform(t, 0, 0.01, 41), uniform(t, 0, 0.002, 21), grid.Planar)
 	sol := mustSolve(t, p, g, nil)
-	// source: REFERENCES P02(a), series layers: E_air = V/(d1/εr + d2), E_layer = E_air/εr
+	// source: Griffiths, Introduction to Electrodynamics (D_n and E_t continuity) [case P02a], series layers: E_air = V/(d1/εr + d2), E_layer = E_air/εr
 	eAir := 1 / (0.001/4 + 0.001)
 	want := map[string]float64{"background": eAir, "board": eAir / 4, "region 3": eAir / 4}
 	var names []string

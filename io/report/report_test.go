@@ -368,7 +368,7 @@ func TestPlatesClosedForm(t *testing.T) {
 	within(t, "-Q[gnd]", -gnd.Charge, wantC, 1e-7)
 	// source: Griffiths, Introduction to Electrodynamics: W' = C'V²/2
 	within(t, "W'", r.Energy, wantC/2, 1e-7)
-	// source: REFERENCES P02a (series layers): E_air = 1864.4068 V/m, E_diel = 423.72881 V/m
+	// source: Griffiths, Introduction to Electrodynamics (D_n and E_t continuity) [case P02a] (series layers): E_air = 1864.4068 V/m, E_diel = 423.72881 V/m
 	within(t, "peak |E| on hv", hv.PeakField.Field, 1864.4068, 1e-7)
 	within(t, "peak |E| on gnd", gnd.PeakField.Field, 423.72881, 1e-7)
 	// The field is uniform, so the peak is the first surface point in
@@ -385,7 +385,7 @@ func TestPlatesClosedForm(t *testing.T) {
 	}
 	within(t, "peak |E| in air", regions["background"], 1864.4068, 1e-7)
 	within(t, "peak |E| in FR-4", regions["FR-4"], 423.72881, 1e-7)
-	// source: REFERENCES P02a: φ(interface) = 0.25423729 V, so φ(0.8 mm) = 0.25423729 + 1864.4068·0.2e-3
+	// source: Griffiths, Introduction to Electrodynamics (D_n and E_t continuity) [case P02a]: φ(interface) = 0.25423729 V, so φ(0.8 mm) = 0.25423729 + 1864.4068·0.2e-3
 	within(t, "φ(probe air)", r.Probes[0].Potential, 0.25423729+1864.4068*0.2e-3, 1e-7)
 	within(t, "|E|(probe laminate)", r.Probes[1].E, 423.72881, 1e-6)
 	cut := r.Cuts[0].Samples
@@ -419,7 +419,7 @@ func TestCoaxClosedForm(t *testing.T) {
 	within(t, "peak |E| on inner", r.Conductors[0].PeakField.Field, 910.23923, 2.5e-2)
 	// source: Ramo, Whinnery & Van Duzer, 1994: E(b) = 303.41308 V/m
 	within(t, "peak |E| on outer", r.Conductors[1].PeakField.Field, 303.41308, 1e-2)
-	// source: REFERENCES P04a: φ(r = 2 mm) = ln(b/r)/ln(b/a) = 0.36907025 V
+	// source: Ramo, Whinnery & Van Duzer, Fields and Waves in Communication Electronics, 1994 [case P04a]: φ(r = 2 mm) = ln(b/r)/ln(b/a) = 0.36907025 V
 	within(t, "φ(midgap)", r.Probes[0].Potential, 0.36907025, 2e-3)
 	if r.Cuts[0].Samples[20].S != 0.002 {
 		t.Errorf("the radial cut ends at s = %g m, want 0.002", r.Cuts[0].Samples[20].S)
@@ -448,7 +448,7 @@ func TestDiscClosedForm(t *testing.T) {
 	want := solve.Eps0 * math.Pi * 1e-4 / (0.4e-3/1 + 0.6e-3/4.4)
 	within(t, "C[hv,hv]", r.Conductors[0].Capacitance[0], want, 1e-7)
 	within(t, "W", r.Energy, want/2, 1e-7)
-	// source: REFERENCES P02a: E_air = 1864.4068 V/m
+	// source: Griffiths, Introduction to Electrodynamics (D_n and E_t continuity) [case P02a]: E_air = 1864.4068 V/m
 	within(t, "peak |E| on hv", r.Conductors[0].PeakField.Field, 1864.4068, 1e-7)
 	within(t, "|E| on the axis", r.Probes[0].E, 1864.4068, 1e-7)
 	if r.Kind != (Kind{"axisymmetric", false}) || r.Units.Charge != "C" || r.Units.Capacitance != "F" || r.Units.Energy != "J" {
