@@ -81,6 +81,26 @@ func BenchmarkVCycle(b *testing.B) {
 	benchKernel(b, func(m *Multigrid, x, rhs []float64) { m.Precondition(x, rhs) })
 }
 
+// BenchmarkSetup sets up the default solver (the multigrid hierarchy and
+// the Krylov vectors) at 1025² and 2049² nodes and releases it.
+func BenchmarkSetup(b *testing.B) {
+	for _, n := range []int{1025, 2049} {
+		b.Run(fmt.Sprint(n), func(b *testing.B) {
+			s := benchSquare(b, n)
+			set := &Settings{Method: MGCG, Tol: 1e-8}
+			b.ReportAllocs()
+			b.ResetTimer()
+			for i := 0; i < b.N; i++ {
+				solver, err := NewSolver(s, set)
+				if err != nil {
+					b.Fatal(err)
+				}
+				solver.Close()
+			}
+		})
+	}
+}
+
 // BenchmarkAssemble rasterises and assembles the unit-square problem.
 func BenchmarkAssemble(b *testing.B) {
 	for _, n := range []int{257, 513, 1025} {

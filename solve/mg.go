@@ -162,7 +162,7 @@ func newMultigrid(sys *System, k *kernels, set Settings) *Multigrid {
 		case *coarseLevel:
 			galerkinCoarse(l, c, m.runner(ncx*ncy))
 		}
-		c.smoother = chooseSmoother(c)
+		c.smoother = c.chooseSmoother()
 		m.cs = append(m.cs, c)
 		m.lv = append(m.lv, c)
 		cur = c

@@ -435,3 +435,27 @@ func TestBandCholeskySolvesCoarsest(t *testing.T) {
 		}
 	}
 }
+
+// TestCoarseSmootherChoiceMatchesGeneral checks the nine-point levels'
+// direct smoother choice against the one made through mgLevel.row, on
+// every level of every case.
+func TestCoarseSmootherChoiceMatchesGeneral(t *testing.T) {
+	lines := 0
+	for _, c := range mgCases {
+		s := c.build(t, 65)
+		m := newMultigrid(s, newKernels(s, 2), Settings{Tol: 1e-8, MaxIter: 10})
+		for li, l := range m.cs {
+			got, want := l.chooseSmoother(), chooseSmoother(l)
+			if got != want {
+				t.Errorf("%s level %d: %v, through the rows %v", c.name, li+1, got, want)
+			}
+			if got != PointGS {
+				lines++
+			}
+		}
+		m.Close()
+	}
+	if lines == 0 {
+		t.Error("no case chose line relaxation on a coarse level; the test compares only point choices")
+	}
+}

@@ -17,33 +17,67 @@ import "math"
 func chooseSmoother(l mgLevel) Smoother {
 	nx, ny := l.dims()
 	var a [9]float64
-	var strongX, strongY int
+	var all uint8
 	for j := 0; j < ny; j++ {
 		for i := 0; i < nx; i++ {
 			if l.isFixed(i, j) {
 				continue
 			}
 			l.row(i, j, &a)
-			sx := math.Abs(a[sW]) + math.Abs(a[sE])
-			sy := math.Abs(a[sS]) + math.Abs(a[sN])
-			if sx > LineRatio*sy && sy > 0 {
-				strongX++
-			}
-			if sy > LineRatio*sx && sx > 0 {
-				strongY++
-			}
+			all |= strongBits(math.Abs(a[sW])+math.Abs(a[sE]), math.Abs(a[sS])+math.Abs(a[sN]))
 		}
 	}
-	needX, needY := strongX > 0, strongY > 0
-	switch {
-	case needX && needY:
+	return smootherOf(all)
+}
+
+// strongBits returns bit 0 when the X couplings sx of a node exceed its Y
+// couplings sy by more than LineRatio, bit 1 for the reverse.
+func strongBits(sx, sy float64) uint8 {
+	var bits uint8
+	if sx > LineRatio*sy && sy > 0 {
+		bits |= 1
+	}
+	if sy > LineRatio*sx && sx > 0 {
+		bits |= 2
+	}
+	return bits
+}
+
+// smootherOf returns the smoother for the union of strongBits over a
+// level.
+func smootherOf(all uint8) Smoother {
+	switch all {
+	case 3:
 		return LineXY
-	case needX:
+	case 1:
 		return LineX
-	case needY:
+	case 2:
 		return LineY
 	}
 	return PointGS
+}
+
+// chooseSmoother is chooseSmoother for a nine-point level, reading the
+// stored stencils directly, row by row on the worker pool.
+func (l *coarseLevel) chooseSmoother() Smoother {
+	st := l.st
+	strong := make([]uint8, l.ny)
+	forRows(l.run, l.ny, func(j int) {
+		o := (j+1)*st + 1
+		var bits uint8
+		for n := o; n < o+l.nx; n++ {
+			if l.fixed[n] {
+				continue
+			}
+			bits |= strongBits(math.Abs(l.w[n])+math.Abs(l.w[n+1]), math.Abs(l.s[n])+math.Abs(l.s[n+st]))
+		}
+		strong[j] = bits
+	})
+	var all uint8
+	for _, b := range strong {
+		all |= b
+	}
+	return smootherOf(all)
 }
 
 // chooseSmoother is chooseSmoother for the finest level, reading the
@@ -68,12 +102,7 @@ func (f *fineLevel) chooseSmoother() Smoother {
 			if j > 0 {
 				sy += s.AY[n-nx]
 			}
-			if sx > LineRatio*sy && sy > 0 {
-				bits |= 1
-			}
-			if sy > LineRatio*sx && sx > 0 {
-				bits |= 2
-			}
+			bits |= strongBits(sx, sy)
 		}
 		strong[j] = bits
 	})
@@ -81,15 +110,7 @@ func (f *fineLevel) chooseSmoother() Smoother {
 	for _, b := range strong {
 		all |= b
 	}
-	switch all {
-	case 3:
-		return LineXY
-	case 1:
-		return LineX
-	case 2:
-		return LineY
-	}
-	return PointGS
+	return smootherOf(all)
 }
 
 // columnBlocks is the number of column blocks of Y-line relaxation on a
