@@ -468,10 +468,11 @@ func (b *builder) pos(x, y float64) Position {
 
 // surfacePeak returns the peak surface field of conductor k, and false
 // when the conductor has no surface point facing a dielectric. Its value
-// is that of field.PeakSurfaceField; its position is the first surface
-// point, in grid order, whose |En| lies within round-off (tieTol) of the
-// largest, so that a uniform field, where every point is the peak, gives
-// a position that does not depend on the order of floating-point sums.
+// and position are those of field.PeakSurfaceField, except that where
+// several surface points tie for the largest |En| within round-off
+// (tieTol), as in a uniform field, the position is the first of them in
+// grid order, so that it does not depend on the order of floating-point
+// sums.
 // SharpEdge comes from field.PeakSurfaceField.
 func (b *builder) surfacePeak(k int) (Peak, bool) {
 	pts := b.sol.SurfaceField(k)
@@ -482,12 +483,20 @@ func (b *builder) surfacePeak(k int) (Peak, bool) {
 	for _, p := range pts {
 		top = math.Max(top, math.Abs(p.En))
 	}
-	pk := Peak{Where: b.sol.Map.Conductors[k].Name, Field: top, SharpEdge: b.sol.PeakSurfaceField(k).Sharp}
-	for _, p := range pts {
+	fp := b.sol.PeakSurfaceField(k)
+	pk := Peak{Where: b.sol.Map.Conductors[k].Name, Field: fp.Value, At: b.pos(fp.X, fp.Y), SharpEdge: fp.Sharp}
+	ties := 0
+	first := -1
+	for i, p := range pts {
 		if math.Abs(p.En) >= top*(1-tieTol) {
-			pk.At = b.pos(p.X, p.Y)
-			break
+			ties++
+			if first < 0 {
+				first = i
+			}
 		}
+	}
+	if ties > 1 {
+		pk.At = b.pos(pts[first].X, pts[first].Y)
 	}
 	return pk, true
 }
