@@ -17,7 +17,9 @@ import (
 // WriteConductorsCSV writes the conductor table: name, potential, whether
 // it floats, charge, the row of the capacitance matrix (one column per
 // conductor, when the report has the matrix), the peak surface field and
-// its position. Missing peaks are empty fields.
+// its position, and whether the peak lies at a sharp edge (where it grows
+// with refinement and is no converged value). Missing peaks are empty
+// fields.
 func (r *Report) WriteConductorsCSV(w io.Writer) error {
 	xs, ys := r.axisNames()
 	lu := unitID(r.Units.Length)
@@ -28,7 +30,7 @@ func (r *Report) WriteConductorsCSV(w io.Writer) error {
 			hdr = append(hdr, "C_"+c.Name+"_"+unitID(r.Units.Capacitance))
 		}
 	}
-	hdr = append(hdr, "peak_field_V_per_m", xs+"_"+lu, ys+"_"+lu, xs+"_m", ys+"_m")
+	hdr = append(hdr, "peak_field_V_per_m", xs+"_"+lu, ys+"_"+lu, xs+"_m", ys+"_m", "sharp_edge")
 	rows := [][]string{hdr}
 	for _, c := range r.Conductors {
 		row := []string{c.Name, ff(c.Potential), strconv.FormatBool(c.Floating), ff(c.Charge)}
@@ -42,9 +44,9 @@ func (r *Report) WriteConductorsCSV(w io.Writer) error {
 			}
 		}
 		if p := c.PeakField; p != nil {
-			row = append(row, ff(p.Field), ff(p.At.X), ff(p.At.Y), ff(p.At.XM), ff(p.At.YM))
+			row = append(row, ff(p.Field), ff(p.At.X), ff(p.At.Y), ff(p.At.XM), ff(p.At.YM), strconv.FormatBool(p.SharpEdge))
 		} else {
-			row = append(row, "", "", "", "", "")
+			row = append(row, "", "", "", "", "", "")
 		}
 		rows = append(rows, row)
 	}

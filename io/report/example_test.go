@@ -62,5 +62,5 @@ func Example() {
 	// gnd: Q' = -165.08 pC/m, C' row = [-165.08 165.08] pF/m, peak |E| = 423.73 V/m on y = 0 mm
 	// W' = 82.539 pJ/m
 	// caution shown: true
-	// name,potential_V,floating,charge_C_per_m,C_hv_F_per_m,C_gnd_F_per_m,peak_field_V_per_m,x_mm,y_mm,x_m,y_m
+	// name,potential_V,floating,charge_C_per_m,C_hv_F_per_m,C_gnd_F_per_m,peak_field_V_per_m,x_mm,y_mm,x_m,y_m,sharp_edge
 }

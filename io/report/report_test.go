@@ -551,7 +551,7 @@ func TestCSV(t *testing.T) {
 		header []string
 	}{
 		{"conductors", func(b *bytes.Buffer) error { return r.WriteConductorsCSV(b) }, 3,
-			[]string{"name", "potential_V", "floating", "charge_C_per_m", "C_hv_F_per_m", "C_gnd_F_per_m", "peak_field_V_per_m", "x_mm", "y_mm", "x_m", "y_m"}},
+			[]string{"name", "potential_V", "floating", "charge_C_per_m", "C_hv_F_per_m", "C_gnd_F_per_m", "peak_field_V_per_m", "x_mm", "y_mm", "x_m", "y_m", "sharp_edge"}},
 		{"probes", func(b *bytes.Buffer) error { return r.WriteProbesCSV(b) }, 3,
 			[]string{"name", "x_mm", "y_mm", "x_m", "y_m", "potential_V", "ex_V_per_m", "ey_V_per_m", "e_V_per_m"}},
 		{"cuts", func(b *bytes.Buffer) error { return r.WriteCutsCSV(b) }, 12,
