@@ -105,18 +105,9 @@ func newKernels(sys *System, workers int) *kernels {
 	k.partA = make([]float64, k.blocks)
 	k.partB = make([]float64, k.blocks)
 	k.invDiag = make([]float64, sys.Len())
-	// The first touch of the fresh vector maps its pages; spread it, and
-	// the divisions, over the workers.
-	nx := sys.Nx
-	k.pool.For(k.blocks, func(lo, hi int) {
-		for b := lo; b < hi; b++ {
-			j0, j1 := k.rows(b)
-			inv, d := k.invDiag[j0*nx:j1*nx], sys.Diag[j0*nx:j1*nx]
-			for i, v := range d {
-				inv[i] = 1 / v
-			}
-		}
-	})
+	for i, d := range sys.Diag {
+		k.invDiag[i] = 1 / d
+	}
 	k.applyFn = k.applyBlocks
 	k.updateFn = k.updateBlocks
 	k.directionFn = k.directionBlocks
