@@ -160,8 +160,11 @@ func (p *Problem) Features() (xs, ys []float64) {
 //     dielectric or charge layer.
 //
 // Beyond the geometry's bounding box (plus two cells), toward an Open side,
-// the Cell cap is lifted: the cells keep growing by Ratio, which makes a
-// far region out to a distant open boundary cheap (see ExtendOpen).
+// the Cell cap is lifted: the cells keep growing by Ratio up to 16 Cell,
+// which makes a far region out to a distant open boundary cheap (see
+// ExtendOpen) while the cells where it meets the fine grid of the other
+// axis keep a bounded aspect ratio, so multigrid convergence does not
+// degrade as the grid is refined.
 // Features closer than a quarter of the local cell size are merged.
 // Mesh.Halvings refines all of it in the same pattern.
 func AutoGrid(p *Problem, m Mesh) (*grid.Grid, error) {

@@ -25,6 +25,12 @@ type axisPlan struct {
 	ratio          float64
 }
 
+// farCells caps the far region's cells at this many target cells, so that
+// the cells where a far region meets the fine grid of the other axis keep
+// a bounded aspect ratio as the grid is refined (the multigrid solver's
+// convergence degrades beyond about 50:1).
+const farCells = 16
+
 // size returns the largest cell size allowed at x. Away from a span the
 // size grows linearly with slope 2(r−1)/(r+1): two neighbouring cells h and
 // r·h have their middles (1+r)·h/2 apart, so that slope makes their ratio r.
@@ -38,7 +44,7 @@ func (a *axisPlan) size(x float64) float64 {
 		if x > a.nearHi {
 			d = x - a.nearHi
 		}
-		h = a.cell + g*d
+		h = math.Min(a.cell+g*d, farCells*a.cell)
 	}
 	for _, s := range a.spans {
 		d := 0.0
