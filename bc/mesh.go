@@ -29,7 +29,7 @@ type axisPlan struct {
 // the cells where a far region meets the fine grid of the other axis keep
 // a bounded aspect ratio as the grid is refined (the multigrid solver's
 // convergence degrades beyond about 50:1).
-const farCells = 16
+const farCells = 8
 
 // size returns the largest cell size allowed at x. Away from a span the
 // size grows linearly with slope 2(r−1)/(r+1): two neighbouring cells h and
