@@ -8,23 +8,6 @@ import (
 	"github.com/phigrid/phigrid/grid"
 )
 
-func uniformGrid(t *testing.T, x0, x1 float64, nx int, y0, y1 float64, ny int, m grid.Metric) *grid.Grid {
-	t.Helper()
-	x, err := grid.Uniform(x0, x1, nx)
-	if err != nil {
-		t.Fatal(err)
-	}
-	y, err := grid.Uniform(y0, y1, ny)
-	if err != nil {
-		t.Fatal(err)
-	}
-	g, err := grid.New(x, y, m)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return g
-}
-
 // TestDirectionalPermittivity: a horizontal layer boundary inside a row of
 // cells gives harmonic means for flux across it (EpsY) and arithmetic
 // means for flux along it (EpsX), half-cell by half-cell.
@@ -37,7 +20,7 @@ func TestDirectionalPermittivity(t *testing.T) {
 		Regions:    []Region{{Kind: Dielectric, Shape: Rect{0, 0, 1, 0.23}, EpsR: 4}},
 	}
 	p.Sides[Bottom] = Side{Kind: Fixed, Conductor: "g"}
-	g := uniformGrid(t, 0, 1, 11, 0, 1, 11, grid.Planar)
+	g := testGrid(t, 0, 1, 11, 0, 1, 11, grid.Planar)
 	m, err := Rasterize(p, g, nil)
 	if err != nil {
 		t.Fatal(err)
@@ -103,7 +86,7 @@ func TestSurfaceCrossings(t *testing.T) {
 			Conductors: []Conductor{{Name: "c", Potential: 1}},
 			Regions:    []Region{{Kind: ConductorRegion, Conductor: "c", Shape: Circle{0, 0.013, 0.371}}},
 		}
-		g := uniformGrid(t, 0, 1, 41, -1, 1, 81, metric)
+		g := testGrid(t, 0, 1, 41, -1, 1, 81, metric)
 		m, err := Rasterize(p, g, nil)
 		if err != nil {
 			t.Fatal(err)
@@ -170,7 +153,7 @@ func TestChargeVolume(t *testing.T) {
 			Regions:    []Region{{Kind: Charge, Shape: Circle{0, 0.0123, 0.3}, Rho: 1}},
 		}
 		p.Sides[Right] = Side{Kind: Fixed, Conductor: "g"}
-		g := uniformGrid(t, 0, 1, 21, -1, 1, 41, c.metric)
+		g := testGrid(t, 0, 1, 21, -1, 1, 41, c.metric)
 		m, err := Rasterize(p, g, nil)
 		if err != nil {
 			t.Fatal(err)

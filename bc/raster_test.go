@@ -27,10 +27,10 @@ func testGrid(t *testing.T, x0, x1 float64, nx int, y0, y1 float64, ny int, m gr
 }
 
 func TestRasterizeCutFractions(t *testing.T) {
-	// A disk of radius 0.3 at the origin on a grid of spacing 0.1: the
-	// link from (0.3?) nodes: node (0.4, 0) is free and (0.3, 0) lies on
-	// the surface; node (0.2, 0.2) is inside (r = 0.283), and its +x
-	// neighbour (0.3, 0.2) at r = 0.361 is free, cut where x = √(0.09−0.04).
+	// A disk of radius 0.3 at the origin on a grid of spacing 0.1: node
+	// (0.2, 0.2) is inside (r = 0.283) and its +x neighbour (0.3, 0.2) at
+	// r = 0.361 is free, so the surface cuts that link where
+	// x = √(0.09−0.04).
 	p := &Problem{
 		Domain:     Rect{0, 0, 1, 1},
 		Conductors: []Conductor{{Name: "c", Potential: 1}},
