@@ -13,19 +13,7 @@ func assembleProblem(t *testing.T, p *bc.Problem, nx, ny int) *System {
 	d := p.Domain
 	x, _ := grid.Uniform(d.X0, d.X1, nx)
 	y, _ := grid.Uniform(d.Y0, d.Y1, ny)
-	g, err := grid.New(x, y, p.Metric)
-	if err != nil {
-		t.Fatal(err)
-	}
-	m, err := bc.Rasterize(p, g, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
-	s, err := Assemble(m)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return s
+	return buildSystem(t, p, x, y)
 }
 
 // TestFarCouplings: on a closed open boundary about the far-field centre

@@ -24,19 +24,7 @@ func unitSquare(t testing.TB, n int) *System {
 		p.Sides[s] = bc.Side{Kind: bc.Fixed}
 	}
 	x, _ := grid.Uniform(0, 1, n)
-	g, err := grid.New(x, x, grid.Planar)
-	if err != nil {
-		t.Fatal(err)
-	}
-	m, err := bc.Rasterize(p, g, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
-	s, err := Assemble(m)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return s
+	return buildSystem(t, p, x, x)
 }
 
 // mixed is an axisymmetric problem with an electrode, a dielectric and a
@@ -57,19 +45,7 @@ func mixed(t testing.TB, n int) *System {
 	p.Sides[bc.Top] = bc.Side{Kind: bc.Fixed, Conductor: "tank"}
 	x, _ := grid.Graded(0, 0.05, grid.Grading{Focus: []float64{0.01, 0.03}, Fine: 0.05 / float64(4*n), Max: 0.05 / float64(n)})
 	y, _ := grid.Graded(0, 0.08, grid.Grading{Focus: []float64{0.02, 0.03, 0.05}, Fine: 0.05 / float64(4*n), Max: 0.05 / float64(n)})
-	g, err := grid.New(x, y, grid.Axisymmetric)
-	if err != nil {
-		t.Fatal(err)
-	}
-	m, err := bc.Rasterize(p, g, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
-	s, err := Assemble(m)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return s
+	return buildSystem(t, p, x, y)
 }
 
 func TestAssemblySymmetricDefinite(t *testing.T) {
