@@ -139,22 +139,7 @@ func galerkinFine(f *fineLevel, c *coarseLevel, run func(n int, fn func(lo, hi i
 						add(gE, p[0], p[1]-ysE, p[2], p[3]-ynE)
 						add(gN, p[0], p[1], p[2]-xwN, p[3]-xeN)
 						add(d[m]-gS-gW-gE-gN, p[0], p[1], p[2], p[3])
-						c.c[n] += mm[0]
-						if hasCE {
-							c.c[n+1] += mm[4]
-							c.w[n+1] += mm[1]
-						}
-						if hasCN {
-							c.c[n+st] += mm[7]
-							c.s[n+st] += mm[2]
-							if hasCE {
-								c.c[n+st+1] += mm[9]
-								c.w[n+st+1] += mm[8]
-								c.s[n+st+1] += mm[6]
-								c.sw[n+st+1] += mm[3]
-								c.se[n+st] += mm[5]
-							}
-						}
+						c.scatter(n, st, hasCE, hasCN, &mm)
 					}
 				}
 			}
@@ -274,22 +259,7 @@ func galerkinCoarse(f *coarseLevel, c *coarseLevel, run func(n int, fn func(lo, 
 						add(-fsw[q+2*fst+1], -ys, 0, xwN-yn, xeN)
 						add(-fse[q+2*fst+1], 0, -ysE, xwN, xeN-ynE)
 						add(sum(m), p[0], p[1], p[2], p[3])
-						c.c[n] += mm[0]
-						if hasCE {
-							c.c[n+1] += mm[4]
-							c.w[n+1] += mm[1]
-						}
-						if hasCN {
-							c.c[n+st] += mm[7]
-							c.s[n+st] += mm[2]
-							if hasCE {
-								c.c[n+st+1] += mm[9]
-								c.w[n+st+1] += mm[8]
-								c.s[n+st+1] += mm[6]
-								c.sw[n+st+1] += mm[3]
-								c.se[n+st] += mm[5]
-							}
-						}
+						c.scatter(n, st, hasCE, hasCN, &mm)
 					}
 				}
 			}
@@ -301,4 +271,30 @@ func galerkinCoarse(f *coarseLevel, c *coarseLevel, run func(n int, fn func(lo, 
 		}
 	})
 	c.pinFixed()
+}
+
+// scatter adds the contributions mm of one fine cell to the coarse
+// stencils of its corner n (row stride st) and of the corners east and
+// north of it that exist (hasCE, hasCN). mm holds, in order, the centre
+// of n, the west and south entries of the east and north corners, the
+// south-west and south-east diagonals, the south entry of the north-east
+// corner, the centres of the east and north corners, the west entry of the
+// north-east corner and its centre.
+func (c *coarseLevel) scatter(n, st int, hasCE, hasCN bool, mm *[10]float64) {
+	c.c[n] += mm[0]
+	if hasCE {
+		c.c[n+1] += mm[4]
+		c.w[n+1] += mm[1]
+	}
+	if hasCN {
+		c.c[n+st] += mm[7]
+		c.s[n+st] += mm[2]
+		if hasCE {
+			c.c[n+st+1] += mm[9]
+			c.w[n+st+1] += mm[8]
+			c.s[n+st+1] += mm[6]
+			c.sw[n+st+1] += mm[3]
+			c.se[n+st] += mm[5]
+		}
+	}
 }
