@@ -9,6 +9,7 @@ import (
 	"math"
 	"path/filepath"
 	"runtime"
+	"sort"
 	"strings"
 	"text/tabwriter"
 	"time"
@@ -64,6 +65,10 @@ type Options struct {
 	// they need thousands of iterations. Zero means DefaultSlowNodes; a
 	// negative value removes the limit.
 	SlowNodes int
+	// Repeat runs every set-up and solve this many times and reports the
+	// median times, as the peer programs do. Zero means 1. Memory is
+	// measured on the first run.
+	Repeat int
 	// Progress, when not nil, receives one line per finished row.
 	Progress io.Writer
 }
@@ -294,30 +299,40 @@ func runCase(ctx context.Context, c Case, o Options, workers int) ([]Row, []stri
 			continue
 		}
 		row := Row{Case: c.Name, Nodes: n, Unknowns: free, Solver: meth.String(), AssembleS: assemble, ResidualS: unit}
-		x := make([]float64, n)
-		runtime.GC()
+		reps := max(1, o.Repeat)
+		setups, solves := make([]float64, 0, reps), make([]float64, 0, reps)
 		var before, after runtime.MemStats
-		runtime.ReadMemStats(&before)
-		ts := time.Now()
-		s, err := solve.NewSolver(sys, &solve.Settings{Method: meth, Tol: o.Tol, Workers: workers})
-		if err != nil {
-			return rows, skipped, fmt.Errorf("perf: %s: %w", c.Name, err)
-		}
-		row.SetupS = time.Since(ts).Seconds()
-		res, err := s.Solve(ctx, b, x)
-		s.Close()
-		runtime.ReadMemStats(&after)
-		if res != nil {
-			row.SolveS = res.Elapsed.Seconds()
-			row.Iterations = res.Iterations
-			row.Residual = res.Residual
-		}
-		if err != nil {
-			if ctx.Err() != nil {
+		for rep := 0; rep < reps; rep++ {
+			x := make([]float64, n)
+			runtime.GC()
+			if rep == 0 {
+				runtime.ReadMemStats(&before)
+			}
+			ts := time.Now()
+			s, err := solve.NewSolver(sys, &solve.Settings{Method: meth, Tol: o.Tol, Workers: workers})
+			if err != nil {
 				return rows, skipped, fmt.Errorf("perf: %s: %w", c.Name, err)
 			}
-			row.Error = err.Error()
+			setups = append(setups, time.Since(ts).Seconds())
+			res, err := s.Solve(ctx, b, x)
+			s.Close()
+			if rep == 0 {
+				runtime.ReadMemStats(&after)
+			}
+			if res != nil {
+				solves = append(solves, res.Elapsed.Seconds())
+				row.Iterations = res.Iterations
+				row.Residual = res.Residual
+			}
+			if err != nil {
+				if ctx.Err() != nil {
+					return rows, skipped, fmt.Errorf("perf: %s: %w", c.Name, err)
+				}
+				row.Error = err.Error()
+				break
+			}
 		}
+		row.SetupS, row.SolveS = median(setups), median(solves)
 		// Operator (Diag, AX, AY, Fixed), b and x, and all the solver
 		// allocated.
 		resident := float64(n)*(3*8+1) + float64(2*n*8)
@@ -358,4 +373,18 @@ func (r *Report) WriteJSON(w io.Writer) error {
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")
 	return enc.Encode(r)
+}
+
+// median returns the median of v (the mean of the middle two for an even
+// count), or 0 for an empty slice. It sorts v.
+func median(v []float64) float64 {
+	if len(v) == 0 {
+		return 0
+	}
+	sort.Float64s(v)
+	m := len(v) / 2
+	if len(v)%2 == 1 {
+		return v[m]
+	}
+	return 0.5 * (v[m-1] + v[m])
 }

@@ -123,3 +123,16 @@ func TestErrors(t *testing.T) {
 		t.Errorf("cancelled run returned %v", err)
 	}
 }
+
+func TestMedian(t *testing.T) {
+	for _, c := range []struct {
+		v    []float64
+		want float64
+	}{
+		{nil, 0}, {[]float64{3}, 3}, {[]float64{3, 1, 2}, 2}, {[]float64{4, 1, 3, 2}, 2.5},
+	} {
+		if got := median(append([]float64(nil), c.v...)); got != c.want {
+			t.Errorf("median(%v) = %g, want %g", c.v, got, c.want)
+		}
+	}
+}

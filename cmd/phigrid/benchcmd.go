@@ -21,6 +21,7 @@ type benchOptions struct {
 	workers  int
 	tol      float64
 	quiet    bool
+	repeat   int
 }
 
 func init() {
@@ -48,6 +49,7 @@ Timings on a shared machine are noisy: compare ratios measured in one run.`,
 			fs.IntVar(&o.workers, "workers", 0, "limit every solve to `N` goroutines (0: all cores)")
 			fs.Float64Var(&o.tol, "tol", 1e-8, "relative-residual `TOLERANCE`")
 			fs.BoolVar(&o.quiet, "q", false, "no progress lines on stderr")
+			fs.IntVar(&o.repeat, "repeat", 1, "run every set-up and solve `N` times and report the median times")
 			return o
 		},
 		run: runBench,
@@ -56,10 +58,10 @@ Timings on a shared machine are noisy: compare ratios measured in one run.`,
 
 func runBench(ctx context.Context, e *env, fs *flag.FlagSet, opts any) error {
 	o := opts.(*benchOptions)
-	if o.maxNodes <= 0 || o.workers < 0 || !(o.tol > 0 && o.tol < 1) {
-		return &usageError{"--max-nodes must be positive, --workers ≥ 0 and --tol in (0, 1)"}
+	if o.maxNodes <= 0 || o.workers < 0 || !(o.tol > 0 && o.tol < 1) || o.repeat < 1 {
+		return &usageError{"--max-nodes must be positive, --workers ≥ 0, --tol in (0, 1) and --repeat ≥ 1"}
 	}
-	po := perf.Options{MaxNodes: o.maxNodes, Workers: o.workers, Tol: o.tol}
+	po := perf.Options{MaxNodes: o.maxNodes, Workers: o.workers, Tol: o.tol, Repeat: o.repeat}
 	if !o.quiet {
 		po.Progress = e.stderr
 	}
