@@ -123,11 +123,11 @@ func TestMicrostrip(t *testing.T) {
 	// computer-aided design", IEEE MTT-S Digest, 1980, zero thickness,
 	// u = 2, εr = 4.4: Z0 = 48.685768 Ω, εeff = 3.3439383.
 	t.Logf("Z0 = %.4f Ω (H&J 48.6858), εeff = %.4f (H&J 3.3439)", z0, epsEff)
-	if e := math.Abs(z0/48.685768 - 1); e > 0.02 {
-		t.Errorf("Z0 = %.4f Ω, want 48.686 Ω within 2 %% (rel err %.2g)", z0, e)
+	if e := math.Abs(z0/48.685768 - 1); e > 0.01 {
+		t.Errorf("Z0 = %.4f Ω, want 48.686 Ω within 1 %% (rel err %.2g)", z0, e)
 	}
-	if e := math.Abs(epsEff/3.3439383 - 1); e > 0.02 {
-		t.Errorf("εeff = %.4f, want 3.3439 within 2 %% (rel err %.2g)", epsEff, e)
+	if e := math.Abs(epsEff/3.3439383 - 1); e > 0.005 {
+		t.Errorf("εeff = %.4f, want 3.3439 within 0.5 %% (rel err %.2g)", epsEff, e)
 	}
 }
 
