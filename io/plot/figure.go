@@ -103,7 +103,8 @@ type figure struct {
 	bar    *colorBar
 	key    *arrowKey
 	layers []layer
-	bounds []boundary // region boundaries, see boundaries
+	bounds []boundary  // region boundaries, see boundaries
+	lines  []fieldLine // the field lines drawn, in the view
 }
 
 func newFigure(sol *field.Solution, p *bc.Problem, o Options, format string) (*figure, error) {
@@ -119,17 +120,17 @@ func newFigure(sol *field.Solution, p *bc.Problem, o Options, format string) (*f
 	if o.Lines == 0 {
 		o.Lines = 24
 	}
-	d := p.Domain
-	if o.Unit == (Unit{}) {
-		o.Unit = autoLength(math.Max(d.X1-d.X0, d.Y1-d.Y0))
-	}
 	lo, _ := sol.Grid.MinMaxStep()
 	f := &figure{
 		sol: sol, p: p, o: o, format: format,
-		sc:   newScene(p, 0.5*lo),
-		unit: o.Unit,
-		w:    float64(o.Width),
+		sc: newScene(p, 0.5*lo),
+		w:  float64(o.Width),
 	}
+	if f.o.Unit == (Unit{}) {
+		d := f.window()
+		f.o.Unit = autoLength(math.Max(d.X1-d.X0, d.Y1-d.Y0))
+	}
+	f.unit = f.o.Unit
 	f.fs = math.Min(15, math.Max(9, f.w/64))
 	switch o.Kind {
 	case Potential:
@@ -231,7 +232,7 @@ func (f *figure) barTicks(h vg.Length) []tick {
 func (f *figure) newAxes(xlen, ylen *vg.Length) *gplot.Plot {
 	gp := gplot.New()
 	gp.BackgroundColor = nil
-	d := f.p.Domain
+	d := f.window()
 	s := f.unit.Scale
 	gp.X.Min, gp.X.Max = d.X0/s, d.X1/s
 	gp.Y.Min, gp.Y.Max = d.Y0/s, d.Y1/s
@@ -275,7 +276,7 @@ func (f *figure) arrange(c draw.Canvas) *layout {
 	top := c.Max.Y - m
 	top -= f.textStyle(1.3, true, ink).Height("Ag")
 	top -= 0.2 * fs
-	d := f.p.Domain
+	d := f.window()
 	aspect := (d.Y1 - d.Y0) / (d.X1 - d.X0)
 	if aspect > 6 || aspect < 1.0/6 {
 		f.distorted = true
@@ -384,7 +385,7 @@ func (f *figure) render(c draw.Canvas) (err error) {
 	}
 
 	// Axes and data.
-	d := f.p.Domain
+	d := f.window()
 	v := &view{c: ly.data, x0: d.X0, y0: d.Y0, x1: d.X1, y1: d.Y1, density: 1}
 	if f.format == "svg" {
 		v.density = 1.5
@@ -521,7 +522,7 @@ func (f *figure) lengthLabel(x, y float64) string {
 // lengthStep is a display step fine enough to place a point on the
 // picture: about a thousandth of the domain, rounded.
 func (f *figure) lengthStep() float64 {
-	d := f.p.Domain
+	d := f.window()
 	e := math.Max(d.X1-d.X0, d.Y1-d.Y0) / f.unit.Scale / 1000
 	return math.Pow(10, math.Floor(math.Log10(e)))
 }

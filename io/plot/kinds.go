@@ -12,11 +12,33 @@ import (
 	"github.com/phigrid/phigrid/field"
 )
 
-// potentialRange returns the smallest and largest node potential.
+// potentialRange returns the smallest and largest potential of the
+// nodes in the picture.
 func (f *figure) potentialRange() (lo, hi float64) {
 	lo, hi = math.Inf(1), math.Inf(-1)
-	for _, v := range f.sol.Phi {
-		lo, hi = math.Min(lo, v), math.Max(hi, v)
+	g := f.sol.Grid
+	xs, ys := g.X(), g.Y()
+	nx := g.Nx()
+	all := !f.windowed()
+	for n, v := range f.sol.Phi {
+		if all || f.inWindow(xs[n%nx], ys[n/nx]) {
+			lo, hi = math.Min(lo, v), math.Max(hi, v)
+		}
+	}
+	if !all {
+		// The frame of the picture too: between nodes, a potential free
+		// of charge takes its extremes on the frame or on conductors.
+		d := f.window()
+		const n = 64
+		for k := range n + 1 {
+			s := float64(k) / n
+			x, y := d.X0+s*(d.X1-d.X0), d.Y0+s*(d.Y1-d.Y0)
+			for _, q := range [4]pt{{x, d.Y0}, {x, d.Y1}, {d.X0, y}, {d.X1, y}} {
+				if v, ok := f.sol.PotentialAt(q.x, q.y); ok {
+					lo, hi = math.Min(lo, v), math.Max(hi, v)
+				}
+			}
+		}
 	}
 	return lo, hi
 }
@@ -73,8 +95,8 @@ func (f *figure) preparePotential() {
 	f.heading("Potential φ", detail)
 }
 
-// nodePeak returns the largest |E| at a free node and where it is, and
-// the smallest non-zero |E| at a free node.
+// nodePeak returns the largest |E| at a free node in the picture and
+// where it is, and the smallest non-zero |E| at such a node.
 func (f *figure) nodePeak() (peak, x, y, least float64) {
 	ex, ey := f.sol.NodeFieldTo(nil, nil)
 	mag := field.Magnitude(nil, ex, ey)
@@ -83,7 +105,7 @@ func (f *figure) nodePeak() (peak, x, y, least float64) {
 	nx := g.Nx()
 	least = math.Inf(1)
 	for n, v := range mag {
-		if m.Kind[n] != bc.Free {
+		if m.Kind[n] != bc.Free || !f.inWindow(xs[n%nx], ys[n/nx]) {
 			continue
 		}
 		if v > peak {
@@ -191,10 +213,14 @@ func (f *figure) conductorBeside(x, y float64) int {
 }
 
 // surfacePeak returns the largest normal field on any conductor surface
-// (field.Solution.SurfaceField), where it is and on which conductor.
+// in the picture (field.Solution.SurfaceField), where it is and on which
+// conductor.
 func (f *figure) surfacePeak() (peak, x, y float64, cond int) {
 	for k := range f.p.Conductors {
 		for _, p := range f.sol.SurfaceField(k) {
+			if !f.inWindow(p.X, p.Y) {
+				continue
+			}
 			if v := math.Abs(p.En); v > peak {
 				peak, x, y, cond = v, p.X, p.Y, k
 			}

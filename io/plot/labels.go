@@ -32,25 +32,17 @@ func (f *figure) contourLayer(cs contourSet, width vg.Length, colour func(level 
 		var placed []circle
 		// Every line on the picture, for keeping labels off other lines.
 		var all [][]vg.Point
+		count := make([]int, len(cs.levels)) // lines of each level on the picture
 		for i := range cs.levels {
 			for _, line := range cs.lines[i] {
-				pts := make([]vg.Point, len(line))
-				for k, p := range line {
-					pts[k] = v.pt(p)
-				}
-				all = append(all, pts)
+				pieces := f.shownLines(v, line, false)
+				all = append(all, pieces...)
+				count[i] += len(pieces)
 			}
 		}
 		// Region boundaries too, so that no label sits on an outline.
 		for _, b := range f.boundaries() {
-			pts := make([]vg.Point, len(b.pts))
-			for k, p := range b.pts {
-				pts[k] = v.pt(p)
-			}
-			if b.closed && len(pts) > 0 {
-				pts = append(pts, pts[0])
-			}
-			all = append(all, pts)
+			all = append(all, f.shownLines(v, b.pts, b.closed)...)
 		}
 		idx := newSegIndex(all, 24)
 		id := 0
@@ -60,7 +52,7 @@ func (f *figure) contourLayer(cs contourSet, width vg.Length, colour func(level 
 			sty := f.textStyle(0.8, false, col)
 			sty.XAlign, sty.YAlign = draw.XCenter, draw.YCenter
 			ls := draw.LineStyle{Color: col, Width: width}
-			for range cs.lines[i] {
+			for range count[i] {
 				pts := all[id]
 				id++
 				if txt == "" {

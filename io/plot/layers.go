@@ -13,7 +13,7 @@ import (
 // segment returns the outline resolution: the longest straight piece
 // used for curves, in metres.
 func (f *figure) segment() float64 {
-	d := f.p.Domain
+	d := f.window()
 	return math.Max(d.X1-d.X0, d.Y1-d.Y0) / 900
 }
 
@@ -35,22 +35,17 @@ func (f *figure) outlineLayer() layer {
 	return func(v *view) {
 		fs := vg.Length(f.fs)
 		for _, b := range bs {
-			line := make([]vg.Point, 0, len(b.pts)+1)
-			for _, p := range b.pts {
-				line = append(line, v.pt(p))
-			}
-			if b.closed {
-				line = append(line, line[0])
-			}
-			switch b.kind {
-			case edgeConductor:
-				v.c.StrokeLines(draw.LineStyle{Color: metalEdge, Width: 1}, line)
-			case edgeDielectric:
-				v.c.StrokeLines(draw.LineStyle{Color: halo, Width: 2}, line)
-				v.c.StrokeLines(draw.LineStyle{Color: ink, Width: 0.9, Dashes: []vg.Length{5, 3}}, line)
-			case edgeCharge:
-				v.c.StrokeLines(draw.LineStyle{Color: halo, Width: 2}, line)
-				v.c.StrokeLines(draw.LineStyle{Color: ink, Width: 1, Dashes: []vg.Length{1, 2.5}}, line)
+			for _, line := range f.shownLines(v, b.pts, b.closed) {
+				switch b.kind {
+				case edgeConductor:
+					v.c.StrokeLines(draw.LineStyle{Color: metalEdge, Width: 1}, line)
+				case edgeDielectric:
+					v.c.StrokeLines(draw.LineStyle{Color: halo, Width: 2}, line)
+					v.c.StrokeLines(draw.LineStyle{Color: ink, Width: 0.9, Dashes: []vg.Length{5, 3}}, line)
+				case edgeCharge:
+					v.c.StrokeLines(draw.LineStyle{Color: halo, Width: 2}, line)
+					v.c.StrokeLines(draw.LineStyle{Color: ink, Width: 1, Dashes: []vg.Length{1, 2.5}}, line)
+				}
 			}
 		}
 		// Thin conductor strips show as a line of at least 1.6 points.
@@ -61,15 +56,20 @@ func (f *figure) outlineLayer() layer {
 			}
 			w := vg.Length(st.Thickness * math.Min(v.sx(), v.sy()))
 			if w < 1.6 {
-				v.c.StrokeLines(draw.LineStyle{Color: metalEdge, Width: 1.6}, []vg.Point{v.pt(pt{st.X0, st.Y0}), v.pt(pt{st.X1, st.Y1})})
+				for _, line := range f.shownLines(v, []pt{{st.X0, st.Y0}, {st.X1, st.Y1}}, false) {
+					v.c.StrokeLines(draw.LineStyle{Color: metalEdge, Width: 1.6}, line)
+				}
 			}
 		}
 		// Conductor sides as heavy bars, sides held at a prescribed
 		// potential as lighter ones.
 		c := v.c
 		const bar = 3
+		d, w := f.p.Domain, f.window()
+		// Only the sides of the domain that are edges of the picture.
+		shown := [4]bool{bc.Left: w.X0 == d.X0, bc.Right: w.X1 == d.X1, bc.Bottom: w.Y0 == d.Y0, bc.Top: w.Y1 == d.Y1}
 		for s, side := range f.p.Sides {
-			if side.Kind != bc.Fixed {
+			if side.Kind != bc.Fixed || !shown[s] {
 				continue
 			}
 			col := metalEdge
@@ -91,6 +91,9 @@ func (f *figure) outlineLayer() layer {
 		}
 		// Point and ring charges.
 		for _, q := range f.p.Charges {
+			if !f.inWindow(q.X, q.Y) {
+				continue
+			}
 			p := v.pt(pt{q.X, q.Y})
 			r := 0.4 * fs
 			var path vg.Path
@@ -125,4 +128,31 @@ func dashesFor(prescribed bool) []vg.Length {
 		return []vg.Length{6, 3}
 	}
 	return nil
+}
+
+// shownLines returns the polyline pts (closed: back to its first point)
+// on the picture: whole when the picture shows the whole domain, else the
+// pieces inside the window.
+func (f *figure) shownLines(v *view, pts []pt, closed bool) [][]vg.Point {
+	if len(pts) == 0 {
+		return nil
+	}
+	if closed {
+		pts = append(pts[:len(pts):len(pts)], pts[0])
+	}
+	var pieces [][]pt
+	if f.windowed() {
+		pieces = clipLine(pts, f.window())
+	} else {
+		pieces = [][]pt{pts}
+	}
+	out := make([][]vg.Point, 0, len(pieces))
+	for _, piece := range pieces {
+		line := make([]vg.Point, len(piece))
+		for i, p := range piece {
+			line[i] = v.pt(p)
+		}
+		out = append(out, line)
+	}
+	return out
 }

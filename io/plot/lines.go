@@ -39,6 +39,9 @@ type tracer struct {
 	p    *bc.Problem
 	sc   *scene
 	peak float64 // largest |E| at a node, for the stall test
+	// shown, when set, reports whether a point is in the picture: see
+	// lines.
+	shown func(x, y float64) bool
 }
 
 func newTracer(sol *field.Solution, p *bc.Problem, sc *scene) *tracer {
@@ -476,13 +479,16 @@ func (t *tracer) edgeEnd(e pt) lineEnd {
 // lines traces from every seed and keeps what the picture needs: every
 // line from a positive surface, and those from negative surfaces that do
 // not end on a conductor (the rest retrace flux already drawn from the
-// other end).
+// other end), or end on one outside the picture, which starts no lines.
 func (t *tracer) lines(seeds []seed) []fieldLine {
 	var out []fieldLine
 	for _, s := range seeds {
 		l := t.trace(s)
 		if s.sign < 0 && l.end == endConductor {
-			continue
+			e := l.pts[len(l.pts)-1]
+			if t.shown == nil || t.shown(e.x, e.y) {
+				continue
+			}
 		}
 		if len(l.pts) >= 2 {
 			out = append(out, l)
@@ -500,8 +506,33 @@ func (f *figure) prepareLines() {
 	}
 	tr := newTracer(f.sol, f.p, f.sc)
 	elems := tr.surface(f.segment())
+	if f.windowed() {
+		tr.shown = f.inWindow
+		// Seeds only on the surfaces in the picture; the lines are still
+		// traced through the whole domain.
+		for k, es := range elems {
+			kept := es[:0]
+			for _, e := range es {
+				if f.inWindow(e.p.x, e.p.y) {
+					kept = append(kept, e)
+				}
+			}
+			elems[k] = kept
+		}
+	}
 	seeds, _ := tr.seeds(elems, f.o.Lines)
 	lines := tr.lines(seeds)
+	if f.windowed() {
+		// A line that leaves the picture ends there.
+		shown := lines[:0]
+		for _, l := range lines {
+			if l.pts = clipLineToExit(l.pts, f.window()); len(l.pts) >= 2 {
+				shown = append(shown, l)
+			}
+		}
+		lines = shown
+	}
+	f.lines = lines
 	if len(lines) == 0 {
 		f.notes = append(f.notes, "No conductor surface carries charge, so no field lines start.")
 	}

@@ -39,6 +39,11 @@ func TestDrawRejects(t *testing.T) {
 		{"too many levels", "png", sol, p, Options{Levels: 1000}},
 		{"unit without a scale", "png", sol, p, Options{Unit: Unit{Name: "mm"}}},
 		{"unit without a name", "png", sol, p, Options{Unit: Unit{Scale: 1e-3}}},
+		{"view outside the domain", "png", sol, p, Options{View: bc.Rect{X0: 1, Y0: 1, X1: 2, Y1: 2}}},
+		{"view touching the domain at a corner", "png", sol, p, Options{View: bc.Rect{X0: -1, Y0: -1, X1: 0, Y1: 0}}},
+		{"empty view", "png", sol, p, Options{View: bc.Rect{X0: 1e-3, Y0: 0, X1: 1e-3, Y1: 1e-3}}},
+		{"inverted view", "png", sol, p, Options{View: bc.Rect{X0: 2e-3, Y0: 0, X1: 1e-3, Y1: 1e-3}}},
+		{"view not finite", "png", sol, p, Options{View: bc.Rect{X0: 0, Y0: 0, X1: math.Inf(1), Y1: 1e-3}}},
 	} {
 		var buf bytes.Buffer
 		err := Draw(&buf, c.format, c.sol, c.p, c.o)

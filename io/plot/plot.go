@@ -97,6 +97,14 @@ type Options struct {
 	// Unit is the length unit of the axes; the zero value picks m, mm or
 	// µm from the size of the domain.
 	Unit Unit
+	// View is the part of the domain the picture shows, in metres; the
+	// zero Rect shows the whole domain. Axes, aspect ratio, colour maps
+	// and their scales, the arrow lattice and the equipotential levels
+	// all follow the view, which lets a problem whose open sides were
+	// extended far out be drawn at the size of its geometry. Field lines
+	// are still traced through the whole domain, but drawn only inside
+	// the view. A view reaching past the domain is cut to it.
+	View bc.Rect
 }
 
 // MaxSize is the largest accepted picture width or height.
@@ -235,8 +243,29 @@ func check(sol *field.Solution, p *bc.Problem, o *Options) error {
 	if o.Levels < 0 || o.Levels > 200 || o.Lines < 0 || o.Lines > 2000 {
 		return fmt.Errorf("%w: %d levels and %d field lines; give 0 for the default, at most 200 levels and 2000 lines", ErrOptions, o.Levels, o.Lines)
 	}
+	if o.View != (bc.Rect{}) {
+		v := o.View
+		for _, c := range []float64{v.X0, v.Y0, v.X1, v.Y1} {
+			if math.IsNaN(c) || math.IsInf(c, 0) {
+				return fmt.Errorf("%w: view %g, %g to %g, %g is not finite; give finite corners, or the zero Rect for the whole domain", ErrOptions, v.X0, v.Y0, v.X1, v.Y1)
+			}
+		}
+		if !(v.X1 > v.X0) || !(v.Y1 > v.Y0) {
+			return fmt.Errorf("%w: view %g, %g to %g, %g is empty; give X0 < X1 and Y0 < Y1, or the zero Rect for the whole domain", ErrOptions, v.X0, v.Y0, v.X1, v.Y1)
+		}
+		c := clipRect(v, d)
+		if !(c.X1-c.X0 > tol) || !(c.Y1-c.Y0 > tol) {
+			return fmt.Errorf("%w: view %g, %g to %g, %g lies outside the domain %g, %g to %g, %g; give a view that overlaps it", ErrOptions, v.X0, v.Y0, v.X1, v.Y1, d.X0, d.Y0, d.X1, d.Y1)
+		}
+	}
 	if o.Unit != (Unit{}) && (o.Unit.Name == "" || !(o.Unit.Scale > 0) || math.IsInf(o.Unit.Scale, 0)) {
 		return fmt.Errorf("%w: length unit %q with scale %g; give a name and a positive scale in metres, or the zero Unit", ErrOptions, o.Unit.Name, o.Unit.Scale)
 	}
 	return nil
+}
+
+// clipRect returns the intersection of the rectangles a and b, which may
+// be empty (X1 ≤ X0 or Y1 ≤ Y0).
+func clipRect(a, b bc.Rect) bc.Rect {
+	return bc.Rect{X0: math.Max(a.X0, b.X0), Y0: math.Max(a.Y0, b.Y0), X1: math.Min(a.X1, b.X1), Y1: math.Min(a.Y1, b.Y1)}
 }
