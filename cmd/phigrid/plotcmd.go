@@ -74,10 +74,12 @@ func runPlot(ctx context.Context, e *env, fs *flag.FlagSet, opts any) error {
 	title := ""
 	var pics []model.Picture
 	var unit model.Unit = model.Unit{Name: a.Unit.Name, Scale: a.Unit.Scale}
+	var view bc.Rect
 	if len(a.ModelSource) > 0 {
 		if m, err := model.Parse(a.ModelName, a.ModelSource); err == nil {
 			title = m.Title
 			pics = m.Outputs.Pictures
+			view = pictureView(m.Domain, a.Problem)
 		}
 	}
 	if o.kind != "" {
@@ -108,7 +110,7 @@ func runPlot(ctx context.Context, e *env, fs *flag.FlagSet, opts any) error {
 			pic.LogScale = true
 		}
 		out := filepath.Join(dir, pic.File)
-		if err := drawPicture(out, sol, a.Problem, pic, title, unit); err != nil {
+		if err := drawPicture(out, sol, a.Problem, pic, title, unit, view); err != nil {
 			return err
 		}
 		names = append(names, pic.File)
@@ -117,10 +119,21 @@ func runPlot(ctx context.Context, e *env, fs *flag.FlagSet, opts any) error {
 	return nil
 }
 
-// drawPicture draws one model picture request to path.
-func drawPicture(path string, sol *field.Solution, p *bc.Problem, pic model.Picture, title string, u model.Unit) error {
+// pictureView returns the part of the solved problem p a picture shows:
+// the domain as the model file gives it when open sides were extended
+// beyond it, or the zero Rect (the whole domain) otherwise.
+func pictureView(written bc.Rect, p *bc.Problem) bc.Rect {
+	if p == nil || written == (bc.Rect{}) || written == p.Domain {
+		return bc.Rect{}
+	}
+	return written
+}
+
+// drawPicture draws one model picture request to path, showing the part
+// view of the domain (the zero Rect for all of it).
+func drawPicture(path string, sol *field.Solution, p *bc.Problem, pic model.Picture, title string, u model.Unit, view bc.Rect) error {
 	o := plot.Options{Width: pic.Width, Height: pic.Height, Levels: pic.Contours, Lines: pic.Lines, Title: title,
-		Unit: plot.Unit{Name: u.Name, Scale: u.Scale}, LogScale: pic.LogScale}
+		Unit: plot.Unit{Name: u.Name, Scale: u.Scale}, LogScale: pic.LogScale, View: view}
 	switch pic.Kind {
 	case model.PotentialMap:
 		o.Kind = plot.Potential

@@ -285,7 +285,7 @@ func writeOutputs(ctx context.Context, dir string, p *prepared, res *solved) ([]
 	for _, pic := range o.Pictures {
 		pic := pic
 		jobs = append(jobs, job{pic.File, func(path string) error {
-			return drawPicture(path, res.sol, p.model.Problem, pic, p.model.Title, p.model.Unit)
+			return drawPicture(path, res.sol, p.model.Problem, pic, p.model.Title, p.model.Unit, pictureView(p.model.Domain, p.model.Problem))
 		}})
 	}
 	if len(jobs) == 0 {
