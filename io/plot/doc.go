@@ -44,7 +44,12 @@
 // conductor sides of the domain as heavy bars, and point or ring charges
 // as signed dots. Axes read in the model's length unit (Options.Unit, or
 // m, mm or µm by the domain's size), x and y or, in an axisymmetric
-// problem, r and z, at equal scale. Colour bars carry their unit, chosen
+// problem, r and z, at equal scale. Options.View limits the picture to
+// part of the domain, such as the region of interest of a problem whose
+// open sides were moved far out: axes, colour scales, arrows and
+// equipotentials then follow what the view shows, and field lines, traced
+// through the whole domain from the surfaces in view, end at its frame.
+// Colour bars carry their unit, chosen
 // so that values read between 1 and 1000: V, kV or MV for potentials;
 // V/m, kV/m, and kV/mm (models in mm or smaller) or MV/m (models in
 // metres) for fields. Every picture that shows a field strength carries
