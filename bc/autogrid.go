@@ -160,7 +160,7 @@ func (p *Problem) Features() (xs, ys []float64) {
 //     dielectric or charge layer.
 //
 // Beyond the geometry's bounding box (plus two cells), toward an Open side,
-// the Cell cap is lifted: the cells keep growing by Ratio up to 8 Cell,
+// the Cell cap is lifted: the cells keep growing by Ratio toward 4 Cell,
 // which makes a far region out to a distant open boundary cheap (see
 // ExtendOpen) while the cells where it meets the fine grid of the other
 // axis keep a bounded aspect ratio, so multigrid convergence does not

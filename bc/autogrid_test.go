@@ -126,9 +126,9 @@ func TestAutoGridRules(t *testing.T) {
 			check: func(t *testing.T, g *grid.Grid) {
 				x := g.X()
 				last := x[len(x)-1] - x[len(x)-2]
-				// The far region grows to the cap of 8 target cells.
-				if last < 4*cell || last > 8*cell*(1+1e-9) {
-					t.Errorf("last cell %g toward the open side, want a far region grown to at most %g", last, 8*cell)
+				// The far region grows toward the cap of 4 target cells.
+				if last < 2*cell || last > 4*cell*(1+1e-9) {
+					t.Errorf("last cell %g toward the open side, want a far region grown to at most %g", last, 4*cell)
 				}
 				if h := maxStep(x, 0, 0.01); h > cell {
 					t.Errorf("step %g near the sphere, want ≤ %g", h, cell)

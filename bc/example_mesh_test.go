@@ -34,5 +34,5 @@ func ExampleExtendOpen() {
 	fmt.Printf("%d × %d nodes, largest cell %.0f mm\n", g.Nx(), g.Ny(), hmax*1e3)
 	// Output:
 	// domain r ≤ 0.30 m, |z| ≤ 0.30 m
-	// 72 × 139 nodes, largest cell 8 mm
+	// 105 × 205 nodes, largest cell 4 mm
 }

@@ -29,7 +29,7 @@ type axisPlan struct {
 // the cells where a far region meets the fine grid of the other axis keep
 // a bounded aspect ratio as the grid is refined (the multigrid solver's
 // convergence degrades beyond about 50:1).
-const farCells = 8
+const farCells = 4
 
 // size returns the largest cell size allowed at x. Away from a span the
 // size grows linearly with slope 2(r−1)/(r+1): two neighbouring cells h and
@@ -44,7 +44,11 @@ func (a *axisPlan) size(x float64) float64 {
 		if x > a.nearHi {
 			d = x - a.nearHi
 		}
-		h = math.Min(a.cell+g*d, farCells*a.cell)
+		// A smooth minimum of the linear growth and the cap, so that the
+		// size has no kink where the cap takes over.
+		lin, c := (a.cell+g*d)/(farCells*a.cell), 1.0
+		h = farCells * a.cell * math.Pow(math.Pow(lin, -4)+math.Pow(c, -4), -0.25)
+		h = math.Max(h, a.cell)
 	}
 	for _, s := range a.spans {
 		d := 0.0
