@@ -176,14 +176,17 @@ func (f *figure) prepareMagnitude() {
 		if k := f.conductorBeside(px, py); k >= 0 {
 			where = "at a grid node beside " + f.p.Conductors[k].Name
 		}
+		caution := "At sharp edges and corners the field grows without bound as the grid is refined; read such peaks with care."
 		if sp, sx, sy, k := f.surfacePeak(); sp >= peak {
 			peak, px, py = sp, sx, sy
 			where = "on the surface of " + f.p.Conductors[k].Name
+			if f.sol.PeakSurfaceField(k).Sharp {
+				caution = "It lies at a sharp edge, where the field grows without bound as the grid is refined: not a converged value."
+			}
 		}
 		f.layers = append(f.layers, markLayer(pt{px, py}))
-		f.notes = append(f.notes, fmt.Sprintf(
-			"Largest |E|: %s %s %s at %s (ringed). At sharp edges and corners the field grows without bound as the grid is refined; read such peaks with care.",
-			formatSig(peak/fu.Factor), fu.Name, where, f.lengthLabel(px, py)))
+		f.notes = append(f.notes, fmt.Sprintf("Largest |E|: %s %s %s at %s (ringed). %s",
+			formatSig(peak/fu.Factor), fu.Name, where, f.lengthLabel(px, py), caution))
 	}
 }
 
