@@ -78,3 +78,25 @@ func forRows(run func(n int, fn func(lo, hi int)), n int, fn func(J int)) {
 		}
 	})
 }
+
+// forRowsByParity calls fn for every coarse row J in [0, n), first the
+// even rows, then the odd ones, each parity in row blocks on run. Rows of
+// one parity are two fine rows apart, so work that also writes the coarse
+// row above its own (as a Galerkin product does) never touches a row that
+// another block of the same pass writes.
+func forRowsByParity(run func(n int, fn func(lo, hi int)), n int, fn func(J int)) {
+	for parity := 0; parity < 2; parity++ {
+		rows := (n - parity + 1) / 2
+		blocks := min(64, rows)
+		if blocks <= 0 {
+			continue
+		}
+		run(blocks, func(lo, hi int) {
+			for b := lo; b < hi; b++ {
+				for r := b * rows / blocks; r < (b+1)*rows/blocks; r++ {
+					fn(2*r + parity)
+				}
+			}
+		})
+	}
+}
