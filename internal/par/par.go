@@ -1,25 +1,24 @@
-// Package par runs loops over index ranges on a fixed set of goroutines
-// without allocating per call, and sums partial results in a fixed order so
-// that reductions do not depend on the number of workers.
 package par
 
 import (
 	"runtime"
 	"sync"
+	"sync/atomic"
 )
 
 // Pool is a set of worker goroutines. The zero value is not usable; create
 // one with New and release it with Close.
 type Pool struct {
 	workers int
-	tasks   chan task
+	wake    chan struct{}
 	wg      sync.WaitGroup
 	closed  bool
-}
 
-type task struct {
-	fn     func(lo, hi int)
-	lo, hi int
+	// The loop in progress: its body, its length and the next index to
+	// hand out.
+	fn   func(lo, hi int)
+	n    int
+	next atomic.Int64
 }
 
 // New returns a pool of the given number of workers; workers ≤ 0 means
@@ -30,7 +29,7 @@ func New(workers int) *Pool {
 	}
 	p := &Pool{workers: workers}
 	if workers > 1 {
-		p.tasks = make(chan task, workers)
+		p.wake = make(chan struct{}, workers)
 		for w := 1; w < workers; w++ {
 			go p.run()
 		}
@@ -39,35 +38,51 @@ func New(workers int) *Pool {
 }
 
 func (p *Pool) run() {
-	for t := range p.tasks {
-		t.fn(t.lo, t.hi)
+	for range p.wake {
+		p.take()
 		p.wg.Done()
+	}
+}
+
+// take runs the loop body on indices handed out one at a time until none
+// are left.
+func (p *Pool) take() {
+	for {
+		k := int(p.next.Add(1) - 1)
+		if k >= p.n {
+			return
+		}
+		p.fn(k, k+1)
 	}
 }
 
 // Workers returns the number of workers.
 func (p *Pool) Workers() int { return p.workers }
 
-// For calls fn on contiguous sub-ranges covering [0, n), one per worker,
-// and returns when all have finished. fn must be safe to call
-// concurrently on disjoint ranges. For does not allocate when fn does not.
+// For calls fn on sub-ranges covering [0, n) and returns when all have
+// finished. With one worker it calls fn(0, n) once; otherwise the calling
+// goroutine and the workers take the indices one at a time, calling
+// fn(k, k+1), so that a worker held up by the operating system delays the
+// loop by one index, not by a share of the range. fn must be safe to call
+// concurrently on disjoint ranges, and must not call For on the same pool.
+// For does not allocate when fn does not.
 func (p *Pool) For(n int, fn func(lo, hi int)) {
-	w := p.workers
-	if w > n {
-		w = n
-	}
+	w := min(p.workers, n)
 	if w <= 1 {
 		if n > 0 {
 			fn(0, n)
 		}
 		return
 	}
+	p.fn, p.n = fn, n
+	p.next.Store(0)
 	p.wg.Add(w - 1)
 	for k := 1; k < w; k++ {
-		p.tasks <- task{fn, k * n / w, (k + 1) * n / w}
+		p.wake <- struct{}{}
 	}
-	fn(0, n/w)
+	p.take()
 	p.wg.Wait()
+	p.fn = nil
 }
 
 // Close stops the workers. The pool must not be used afterwards.
@@ -76,8 +91,8 @@ func (p *Pool) Close() {
 		return
 	}
 	p.closed = true
-	if p.tasks != nil {
-		close(p.tasks)
+	if p.wake != nil {
+		close(p.wake)
 	}
 }
 
