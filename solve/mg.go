@@ -58,7 +58,9 @@ type Level struct {
 // finest, four-colour on the nine-point levels) where the operator is
 // close to isotropic, zebra line relaxation along the dominant direction
 // where the couplings differ by more than LineRatio (graded grids with
-// long thin cells, cells cut by a dielectric interface). A V-cycle relaxes
+// long thin cells, cells cut by a dielectric interface). Lines are solved
+// by the Thomas algorithm; the pivots of X lines are computed once at
+// set-up, so that their sweeps carry no division. A V-cycle relaxes
 // forward on the way down and in the reverse order on the way up, so one
 // V-cycle from zero is a symmetric positive definite preconditioner for
 // conjugate gradients.
@@ -67,8 +69,9 @@ type Level struct {
 // weights are recomputed from the operator (only the lumped diagonals of
 // the edge points are kept); every coarser level keeps five of its nine
 // stencil entries per node in float64 (the others follow by symmetry),
-// with a halo of zeros, and its interpolation weights. The whole hierarchy
-// takes about a third of the finest level's nodes; see EstimateMemory.
+// with a halo of zeros, and its interpolation weights; levels that relax
+// X lines keep their pivots too. The whole hierarchy takes about a third
+// of the finest level's nodes; see EstimateMemory.
 //
 // Every kernel runs over fixed row blocks on the worker pool, and no value
 // depends on how the blocks are shared out, so results are identical,
@@ -136,6 +139,7 @@ func newMultigrid(sys *System, k *kernels, set Settings) *Multigrid {
 	m.fine.smoother = m.fine.chooseSmoother()
 	if m.fine.smoother != PointGS {
 		m.fine.needR()
+		m.fine.factorLines()
 	}
 	for {
 		nx, ny := cur.dims()
@@ -163,6 +167,7 @@ func newMultigrid(sys *System, k *kernels, set Settings) *Multigrid {
 			galerkinCoarse(l, c, m.runner(ncx*ncy))
 		}
 		c.smoother = c.chooseSmoother()
+		c.factorLines()
 		m.cs = append(m.cs, c)
 		m.lv = append(m.lv, c)
 		cur = c

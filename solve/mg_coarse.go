@@ -45,6 +45,9 @@ type coarseLevel struct {
 	fixed           []bool
 	// x, b and r are the level's correction, right-hand side and residual.
 	x, b, r []float64
+	// pivX holds the Thomas pivots of the X lines when the smoother
+	// relaxes them (see factorLines).
+	pivX []float64
 	// p holds pLen interpolation weights per point of the next coarser
 	// level (compact index I + ncx·J); nil on the coarsest level.
 	p        []float64

@@ -12,9 +12,12 @@ type fineLevel struct {
 	nx, ny int
 	k      *kernels
 	// r is the residual of the finest level, allocated only where it is
-	// needed: for line relaxation (which also keeps its eliminated
-	// super-diagonal there) and for stand-alone cycles.
-	r        []float64
+	// needed: for line relaxation (whose Y lines also keep their
+	// eliminated super-diagonal there) and for stand-alone cycles.
+	r []float64
+	// pivX holds the Thomas pivots of the X lines when the smoother
+	// relaxes them (see factorLines).
+	pivX     []float64
 	ncx, ncy int
 	// ix and iy hold, per coarse point (I, J), the inverse lumped
 	// diagonals of the x-edge point (2I+1, 2J) and the y-edge point

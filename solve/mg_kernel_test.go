@@ -377,10 +377,12 @@ func TestLineRelaxationSolvesLines(t *testing.T) {
 			switch l := lv.(type) {
 			case *fineLevel:
 				l.smoother, l.opX, l.opB = sm, x, b
+				l.factorLines()
 				l.lineAxis, l.color = int(sm-LineX), 1
 				l.run(map[Smoother]int{LineX: l.k.blocks, LineY: columnBlocks(nx)}[sm], l.lineFn)
 			case *coarseLevel:
 				l.smoother, l.opX, l.opB = sm, x, b
+				l.factorLines()
 				l.lineAxis, l.color = int(sm-LineX), 1
 				l.run(map[Smoother]int{LineX: l.blocks, LineY: columnBlocks(nx)}[sm], l.lineFn)
 			}
@@ -457,5 +459,99 @@ func TestCoarseSmootherChoiceMatchesGeneral(t *testing.T) {
 	}
 	if lines == 0 {
 		t.Error("no case chose line relaxation on a coarse level; the test compares only point choices")
+	}
+}
+
+// TestLinePivotsMatchFreshThomas checks that X-line relaxation with the
+// pivots stored at set-up gives, bit for bit, what the Thomas algorithm
+// gives when it factorises every line afresh, on the finest level and on
+// a nine-point level.
+func TestLinePivotsMatchFreshThomas(t *testing.T) {
+	s := mgGraded(t, 33)
+	m := newMultigrid(s, newKernels(s, 2), Settings{Tol: 1e-8, MaxIter: 10})
+	defer m.Close()
+
+	// Finest level.
+	f := m.fine
+	f.smoother = LineX
+	f.needR()
+	f.factorLines()
+	nx, ny := f.nx, f.ny
+	b := pseudo(f, nx*ny, 0.4)
+	x0 := pseudo(f, nx*ny, 0.9)
+	want := append([]float64(nil), x0...)
+	for j := 1; j < ny; j += 2 {
+		// Reference: Thomas algorithm with its own factorisation.
+		cp := make([]float64, nx)
+		var pc, px float64
+		for i := 0; i < nx; i++ {
+			n := j*nx + i
+			rhs := b[n]
+			if j > 0 {
+				rhs += s.AY[n-nx] * x0[n-nx]
+			}
+			if j+1 < ny {
+				rhs += s.AY[n] * x0[n+nx]
+			}
+			var sub, sup float64
+			if i > 0 {
+				sub = -s.AX[n-1]
+			}
+			if i+1 < nx {
+				sup = -s.AX[n]
+			}
+			inv := 1 / (s.Diag[n] - sub*pc)
+			pc = sup * inv
+			px = (rhs - sub*px) * inv
+			cp[i], want[n] = pc, px
+		}
+		for i := nx - 2; i >= 0; i-- {
+			n := j*nx + i
+			want[n] -= cp[i] * want[n+1]
+		}
+	}
+	got := append([]float64(nil), x0...)
+	f.opX, f.opB = got, b
+	f.lineAxis, f.color = 0, 1
+	f.run(f.k.blocks, f.lineFn)
+	for i := range got {
+		if got[i] != want[i] {
+			t.Fatalf("finest level node %d: %v with stored pivots, %v factorised afresh", i, got[i], want[i])
+		}
+	}
+
+	// A nine-point level.
+	c := m.cs[0]
+	c.smoother = LineX
+	c.factorLines()
+	st := c.st
+	cb := pseudo(c, len(c.x), 0.4)
+	cx0 := pseudo(c, len(c.x), 0.9)
+	cwant := append([]float64(nil), cx0...)
+	for j := 1; j < c.ny; j += 2 {
+		o := (j+1)*st + 1
+		cp := make([]float64, len(c.x))
+		var pc, px float64
+		for n := o; n < o+c.nx; n++ {
+			rhs := cb[n] - c.s[n]*cx0[n-st] - c.s[n+st]*cx0[n+st] -
+				c.sw[n]*cx0[n-st-1] - c.se[n]*cx0[n-st+1] - c.sw[n+st+1]*cx0[n+st+1] - c.se[n+st-1]*cx0[n+st-1]
+			sub := c.w[n]
+			inv := 1 / (c.c[n] - sub*pc)
+			pc = c.w[n+1] * inv
+			px = (rhs - sub*px) * inv
+			cp[n], cwant[n] = pc, px
+		}
+		for n := o + c.nx - 2; n >= o; n-- {
+			cwant[n] -= cp[n] * cwant[n+1]
+		}
+	}
+	cgot := append([]float64(nil), cx0...)
+	c.opX, c.opB = cgot, cb
+	c.lineAxis, c.color = 0, 1
+	c.run(c.blocks, c.lineFn)
+	for i := range cgot {
+		if cgot[i] != cwant[i] {
+			t.Fatalf("nine-point level node %d: %v with stored pivots, %v factorised afresh", i, cgot[i], cwant[i])
+		}
 	}
 }

@@ -9,8 +9,11 @@ package solve
 //
 // The figure is computed from the same sizes the set-up allocates, so it
 // can be checked before committing memory to a large grid. For multigrid
-// it assumes point relaxation on the finest level; where the operator
-// there is strongly anisotropic, line relaxation adds 8 bytes per node.
+// it assumes point relaxation; where the operator is strongly
+// anisotropic, line relaxation adds 8 bytes per node of the finest level
+// (its residual), 8 more where it relaxes X lines (their pivots), and 8
+// per node of each coarser level that relaxes X lines: at most about
+// 19 bytes per node of the finest level in all.
 func EstimateMemory(nx, ny int, m Method) int64 {
 	if nx < 1 || ny < 1 {
 		return 0

@@ -169,10 +169,8 @@ func (f *fineLevel) smoothLines(post bool) {
 // blocks (row blocks for X lines, column blocks for Y lines) by the
 // Thomas algorithm; lines of one parity do not couple.
 func (f *fineLevel) lineBlocks(lo, hi int) {
-	s := f.sys
 	nx, ny := f.nx, f.ny
-	x, b, cp := f.opX, f.opB, f.r
-	ax, ay, d := s.AX, s.AY, s.Diag
+	x, cp := f.opX, f.r
 	if f.lineAxis == 0 {
 		for blk := lo; blk < hi; blk++ {
 			j0, j1 := f.k.rows(blk)
@@ -197,36 +195,91 @@ func (f *fineLevel) lineBlocks(lo, hi int) {
 			i0++
 		}
 		for j := 0; j < ny; j++ {
-			o := j * nx
-			for i := i0; i < i1; i += 2 {
-				n := o + i
-				rhs := b[n]
-				if i > 0 {
-					rhs += ax[n-1] * x[n-1]
-				}
-				if i+1 < nx {
-					rhs += ax[n] * x[n+1]
-				}
-				var sub, sup, pc, px float64
-				if j > 0 {
-					sub = -ay[n-nx]
-					pc, px = cp[n-nx], x[n-nx]
-				}
-				if j+1 < ny {
-					sup = -ay[n]
-				}
-				inv := 1 / (d[n] - sub*pc)
-				cp[n] = sup * inv
-				x[n] = (rhs - sub*px) * inv
-			}
+			f.yForwardRow(j, i0, i1)
 		}
 		for j := ny - 2; j >= 0; j-- {
 			o := j * nx
-			for i := i0; i < i1; i += 2 {
-				n := o + i
-				x[n] -= cp[n] * x[n+nx]
+			xr, xn, cr := x[o:o+nx], x[o+nx:o+2*nx], cp[o:o+nx]
+			xn, cr = xn[:len(xr)], cr[:len(xr)]
+			for i := uint(i0); i < uint(i1); i += 2 {
+				xr[i] -= cr[i] * xn[i]
 			}
 		}
+	}
+}
+
+// yForwardRow is the forward elimination of the Thomas algorithm on row j
+// for the Y lines in the columns i0, i0+2, … below i1: the eliminated
+// super-diagonal goes to the residual vector, the eliminated right-hand
+// side to x. Interior nodes take a loop without edge tests.
+func (f *fineLevel) yForwardRow(j, i0, i1 int) {
+	s := f.sys
+	nx, ny := f.nx, f.ny
+	x, b, cp := f.opX, f.opB, f.r
+	ax, ay, d := s.AX, s.AY, s.Diag
+	o := j * nx
+	node := func(i int) {
+		n := o + i
+		rhs := b[n]
+		if i > 0 {
+			rhs += ax[n-1] * x[n-1]
+		}
+		if i+1 < nx {
+			rhs += ax[n] * x[n+1]
+		}
+		var sub, sup, pc, px float64
+		if j > 0 {
+			sub = -ay[n-nx]
+			pc, px = cp[n-nx], x[n-nx]
+		}
+		if j+1 < ny {
+			sup = -ay[n]
+		}
+		inv := 1 / (d[n] - sub*pc)
+		cp[n] = sup * inv
+		x[n] = (rhs - sub*px) * inv
+	}
+	if j == 0 || j == ny-1 {
+		for i := i0; i < i1; i += 2 {
+			node(i)
+		}
+		return
+	}
+	i := i0
+	if i == 0 {
+		node(0)
+		i = 2
+	}
+	end := min(i1, nx-1)
+	// The right-hand sides first, into x: they need only the other
+	// columns. Slices shifted by one column and unsigned indices let the
+	// compiler drop most bounds checks.
+	xr := x[o : o+nx]
+	if i < end {
+		m := nx - 2
+		xw, xe, xo := xr[:m], xr[2:2+m], xr[1:1+m]
+		aw, ae, bb := ax[o:o+m], ax[o+1:o+1+m], b[o+1:o+1+m]
+		for k := uint(i - 1); k < uint(end-1); k += 2 {
+			rhs := bb[k]
+			rhs += aw[k] * xw[k]
+			rhs += ae[k] * xe[k]
+			xo[k] = rhs
+		}
+	}
+	xs, cr, cs := x[o-nx:o], cp[o:o+nx], cp[o-nx:o]
+	dr, ays, ayr := d[o:o+nx], ay[o-nx:o], ay[o:o+nx]
+	xs, cr, cs, dr, ays, ayr = xs[:nx], cr[:nx], cs[:nx], dr[:nx], ays[:nx], ayr[:nx]
+	k := uint(i)
+	for ; k < uint(end); k += 2 {
+		// −(−a)·c is a·c exactly, so the signs are folded.
+		a := ays[k]
+		inv := 1 / (dr[k] + a*cs[k])
+		cr[k] = -(ayr[k] * inv)
+		xr[k] = (xr[k] + a*xs[k]) * inv
+	}
+	i = int(k)
+	if i < i1 {
+		node(i)
 	}
 }
 
@@ -249,8 +302,7 @@ func (l *coarseLevel) smoothLines(post bool) {
 
 func (l *coarseLevel) lineBlocks(lo, hi int) {
 	st := l.st
-	x, b, cp := l.opX, l.opB, l.r
-	c, w, s, sw, se := l.c, l.w, l.s, l.sw, l.se
+	x, cp := l.opX, l.r
 	nx, ny := l.nx, l.ny
 	if l.lineAxis == 0 {
 		for blk := lo; blk < hi; blk++ {
@@ -275,51 +327,214 @@ func (l *coarseLevel) lineBlocks(lo, hi int) {
 			i0++
 		}
 		for j := 0; j < ny; j++ {
-			o := (j+1)*st + 1
-			for i := i0; i < i1; i += 2 {
-				n := o + i
-				rhs := b[n] - w[n]*x[n-1] - w[n+1]*x[n+1] -
-					sw[n]*x[n-st-1] - se[n]*x[n-st+1] - sw[n+st+1]*x[n+st+1] - se[n+st-1]*x[n+st-1]
-				sub := s[n]
-				// The halo row below holds cp = x = 0.
-				inv := 1 / (c[n] - sub*cp[n-st])
-				cp[n] = s[n+st] * inv
-				x[n] = (rhs - sub*x[n-st]) * inv
-			}
+			l.yForwardRow(j, i0, i1)
 		}
 		for j := ny - 2; j >= 0; j-- {
 			o := (j+1)*st + 1
-			for i := i0; i < i1; i += 2 {
-				n := o + i
-				x[n] -= cp[n] * x[n+st]
+			xr, xn, cr := x[o:o+nx], x[o+st:o+st+nx], cp[o:o+nx]
+			xn, cr = xn[:len(xr)], cr[:len(xr)]
+			for i := uint(i0); i < uint(i1); i += 2 {
+				xr[i] -= cr[i] * xn[i]
 			}
 		}
 	}
 }
 
+// yForwardRow is the forward elimination of the Thomas algorithm on row j
+// of a nine-point level for the Y lines in the columns i0, i0+2, … below
+// i1: the eliminated super-diagonal goes to the residual vector, the
+// eliminated right-hand side to x. The right-hand sides, which need only
+// the other columns, are formed in x first.
+func (l *coarseLevel) yForwardRow(j, i0, i1 int) {
+	st, nx := l.st, l.nx
+	o := (j+1)*st + 1
+	x := l.opX
+	// Row slices start one column left of the row, so that column i of
+	// the row is entry i+1.
+	// x around the node: west, own, east; south-west, south, south-east;
+	// north-west and north-east.
+	xw, xo, xe := x[o-1:o-1+nx], x[o:o+nx], x[o+1:o+1+nx]
+	sw0, ss0, se0 := x[o-st-1:o-st-1+nx], x[o-st:o-st+nx], x[o-st+1:o-st+1+nx]
+	nw0, ne0 := x[o+st-1:o+st-1+nx], x[o+st+1:o+st+1+nx]
+	b, w, wE := l.opB[o:o+nx], l.w[o:o+nx], l.w[o+1:o+nx+1]
+	sw, se := l.sw[o:o+nx], l.se[o:o+nx]
+	swN, seN := l.sw[o+st+1:o+st+nx+1], l.se[o+st-1:o+st+nx-1]
+	m := len(xo)
+	xw, xe, sw0, se0, nw0, ne0 = xw[:m], xe[:m], sw0[:m], se0[:m], nw0[:m], ne0[:m]
+	b, w, wE, sw, se, swN, seN = b[:m], w[:m], wE[:m], sw[:m], se[:m], swN[:m], seN[:m]
+	if i1 > m {
+		panic("solve: column range outside the level")
+	}
+	for i := uint(i0); i < uint(i1); i += 2 {
+		xo[i] = b[i] - w[i]*xw[i] - wE[i]*xe[i] -
+			sw[i]*sw0[i] - se[i]*se0[i] - swN[i]*ne0[i] - seN[i]*nw0[i]
+	}
+	// The halo row below holds cp = x = 0.
+	cp := l.r
+	c, s, sN := l.c[o:o+nx], l.s[o:o+nx], l.s[o+st:o+st+nx]
+	cr, cs := cp[o:o+nx], cp[o-st:o-st+nx]
+	c, s, sN, cr, cs, ss0 = c[:m], s[:m], sN[:m], cr[:m], cs[:m], ss0[:m]
+	for i := uint(i0); i < uint(i1); i += 2 {
+		sub := s[i]
+		inv := 1 / (c[i] - sub*cs[i])
+		cr[i] = sN[i] * inv
+		xo[i] = (xo[i] - sub*ss0[i]) * inv
+	}
+}
+
 // xLinePair solves the X lines ja and jb (jb < 0: ja alone) of the finest
-// level by the Thomas algorithm, the two recurrences interleaved. Fixed
-// nodes have no couplings and come out as x = b.
+// level by the Thomas algorithm with the stored pivots (see factorLines),
+// the two recurrences interleaved. The lines' right-hand sides are formed
+// in x first: a line's solution does not depend on its own old values.
+// Fixed nodes have no couplings and come out as x = b.
 func (f *fineLevel) xLinePair(ja, jb int) {
+	nx := f.nx
+	ax, piv := f.sys.AX[:nx*f.ny], f.pivX
+	f.xLineRHS(ja)
+	oa := ja * nx
+	xa, pa, aa := f.opX[oa:oa+nx], piv[oa:oa+nx], ax[oa:oa+nx]
+	if jb < 0 {
+		y := xa[0] * pa[0]
+		xa[0] = y
+		for i := 1; i < len(xa); i++ {
+			y = (xa[i] + aa[i-1]*y) * pa[i]
+			xa[i] = y
+		}
+		for i := len(xa) - 2; i >= 0; i-- {
+			xa[i] += (aa[i] * pa[i]) * xa[i+1]
+		}
+		return
+	}
+	f.xLineRHS(jb)
+	ob := jb * nx
+	xb, pb, ab := f.opX[ob:ob+nx], piv[ob:ob+nx], ax[ob:ob+nx]
+	pa, aa, xb, pb, ab = pa[:len(xa)], aa[:len(xa)], xb[:len(xa)], pb[:len(xa)], ab[:len(xa)]
+	ya, yb := xa[0]*pa[0], xb[0]*pb[0]
+	xa[0], xb[0] = ya, yb
+	for i := 1; i < len(xa); i++ {
+		ya = (xa[i] + aa[i-1]*ya) * pa[i]
+		yb = (xb[i] + ab[i-1]*yb) * pb[i]
+		xa[i], xb[i] = ya, yb
+	}
+	for i := len(xa) - 2; i >= 0; i-- {
+		xa[i] += (aa[i] * pa[i]) * xa[i+1]
+		xb[i] += (ab[i] * pb[i]) * xb[i+1]
+	}
+}
+
+// xLineRHS writes into row j of x the right-hand side of its X line: b
+// plus the couplings to the rows beside it.
+func (f *fineLevel) xLineRHS(j int) {
 	s := f.sys
 	nx, ny := f.nx, f.ny
-	x, b, cp := f.opX, f.opB, f.r
-	ax, ay, d := s.AX, s.AY, s.Diag
-	rhs := func(n, j int) float64 {
-		v := b[n]
-		if j > 0 {
-			v += ay[n-nx] * x[n-nx]
+	x, b, ay := f.opX, f.opB, s.AY
+	o := j * nx
+	xr, br := x[o:o+nx], b[o:o+nx]
+	switch {
+	case j > 0 && j+1 < ny:
+		xs, xn, ays, ayr := x[o-nx:o], x[o+nx:o+2*nx], ay[o-nx:o], ay[o:o+nx]
+		xs, xn, ays, ayr, br = xs[:len(xr)], xn[:len(xr)], ays[:len(xr)], ayr[:len(xr)], br[:len(xr)]
+		for i := range xr {
+			v := br[i]
+			v += ays[i] * xs[i]
+			v += ayr[i] * xn[i]
+			xr[i] = v
 		}
-		if j+1 < ny {
-			v += ay[n] * x[n+nx]
+	case j > 0:
+		xs, ays := x[o-nx:o], ay[o-nx:o]
+		for i := range xr {
+			xr[i] = br[i] + ays[i]*xs[i]
 		}
-		return v
+	case j+1 < ny:
+		xn, ayr := x[o+nx:o+2*nx], ay[o:o+nx]
+		for i := range xr {
+			xr[i] = br[i] + ayr[i]*xn[i]
+		}
+	default:
+		copy(xr, br)
 	}
-	oa := ja * nx
+}
+
+// xLinePair solves the X lines ja and jb (jb < 0: ja alone) of a
+// nine-point level by the Thomas algorithm with the stored pivots, the
+// two recurrences interleaved, after forming their right-hand sides in x.
+func (l *coarseLevel) xLinePair(ja, jb int) {
+	st := l.st
+	l.xLineRHS(ja)
+	oa := (ja+1)*st + 1
+	n := l.nx
+	xa, pa, wa, we := l.opX[oa:oa+n], l.pivX[oa:oa+n], l.w[oa:oa+n], l.w[oa+1:oa+1+n]
 	if jb < 0 {
-		pc, px := 0.0, 0.0
+		y := xa[0] * pa[0]
+		xa[0] = y
+		for i := 1; i < len(xa); i++ {
+			y = (xa[i] - wa[i]*y) * pa[i]
+			xa[i] = y
+		}
+		for i := len(xa) - 2; i >= 0; i-- {
+			xa[i] -= (we[i] * pa[i]) * xa[i+1]
+		}
+		return
+	}
+	l.xLineRHS(jb)
+	ob := (jb+1)*st + 1
+	xb, pb, wb, wf := l.opX[ob:ob+n], l.pivX[ob:ob+n], l.w[ob:ob+n], l.w[ob+1:ob+1+n]
+	pa, wa, we = pa[:len(xa)], wa[:len(xa)], we[:len(xa)]
+	xb, pb, wb, wf = xb[:len(xa)], pb[:len(xa)], wb[:len(xa)], wf[:len(xa)]
+	ya, yb := xa[0]*pa[0], xb[0]*pb[0]
+	xa[0], xb[0] = ya, yb
+	for i := 1; i < len(xa); i++ {
+		ya = (xa[i] - wa[i]*ya) * pa[i]
+		yb = (xb[i] - wb[i]*yb) * pb[i]
+		xa[i], xb[i] = ya, yb
+	}
+	for i := len(xa) - 2; i >= 0; i-- {
+		xa[i] -= (we[i] * pa[i]) * xa[i+1]
+		xb[i] -= (wf[i] * pb[i]) * xb[i+1]
+	}
+}
+
+// xLineRHS writes into row j of x the right-hand side of its X line: b
+// minus the couplings to the rows beside it.
+func (l *coarseLevel) xLineRHS(j int) {
+	st := l.st
+	o := (j+1)*st + 1
+	n := l.nx
+	x, b := l.opX, l.opB
+	xr, br := x[o:o+n], b[o:o+n]
+	// Rows below and above, from one column left to one right.
+	xs, xn := x[o-st-1:o-st+n+1], x[o+st-1:o+st+n+1]
+	s, sN := l.s[o:o+n], l.s[o+st:o+st+n]
+	sw, se := l.sw[o:o+n], l.se[o:o+n]
+	swN, seN := l.sw[o+st+1:o+st+1+n], l.se[o+st-1:o+st-1+n]
+	br, s, sN, sw, se, swN, seN = br[:len(xr)], s[:len(xr)], sN[:len(xr)], sw[:len(xr)], se[:len(xr)], swN[:len(xr)], seN[:len(xr)]
+	xs, xn = xs[:len(xr)+2], xn[:len(xr)+2]
+	for i := range xr {
+		xr[i] = br[i] - s[i]*xs[i+1] - sN[i]*xn[i+1] -
+			sw[i]*xs[i] - se[i]*xs[i+2] - swN[i]*xn[i+2] - seN[i]*xn[i]
+	}
+}
+
+// factorLines computes, once at set-up, the Thomas pivots of the finest
+// level's X lines when its smoother relaxes them. For a line with
+// diagonal d and couplings a to the next node, pivot k is
+// 1/(d_k − a_{k−1}·c_{k−1}) with c_k = a_k·pivot_k; the sweeps then carry
+// no division, and form the same products as a factorisation done afresh
+// would, so the results are the same bit for bit.
+func (f *fineLevel) factorLines() {
+	if f.smoother != LineX && f.smoother != LineXY {
+		return
+	}
+	s := f.sys
+	nx := f.nx
+	ax, d := s.AX, s.Diag
+	f.pivX = make([]float64, nx*f.ny)
+	piv := f.pivX
+	forRows(f.run, f.ny, func(j int) {
+		o := j * nx
+		pc := 0.0
 		for i := 0; i < nx; i++ {
-			n := oa + i
+			n := o + i
 			var sub, sup float64
 			if i > 0 {
 				sub = -ax[n-1]
@@ -329,80 +544,28 @@ func (f *fineLevel) xLinePair(ja, jb int) {
 			}
 			inv := 1 / (d[n] - sub*pc)
 			pc = sup * inv
-			px = (rhs(n, ja) - sub*px) * inv
-			cp[n], x[n] = pc, px
+			piv[n] = inv
 		}
-		for n := oa + nx - 2; n >= oa; n-- {
-			x[n] -= cp[n] * x[n+1]
-		}
-		return
-	}
-	ob := jb * nx
-	pa, xa, pb, xb := 0.0, 0.0, 0.0, 0.0
-	for i := 0; i < nx; i++ {
-		na, nb := oa+i, ob+i
-		var suba, supa, subb, supb float64
-		if i > 0 {
-			suba, subb = -ax[na-1], -ax[nb-1]
-		}
-		if i+1 < nx {
-			supa, supb = -ax[na], -ax[nb]
-		}
-		inva := 1 / (d[na] - suba*pa)
-		invb := 1 / (d[nb] - subb*pb)
-		pa, pb = supa*inva, supb*invb
-		xa = (rhs(na, ja) - suba*xa) * inva
-		xb = (rhs(nb, jb) - subb*xb) * invb
-		cp[na], x[na], cp[nb], x[nb] = pa, xa, pb, xb
-	}
-	for i := nx - 2; i >= 0; i-- {
-		na, nb := oa+i, ob+i
-		x[na] -= cp[na] * x[na+1]
-		x[nb] -= cp[nb] * x[nb+1]
-	}
+	})
 }
 
-// xLinePair solves the X lines ja and jb (jb < 0: ja alone) of a
-// nine-point level, the two recurrences interleaved.
-func (l *coarseLevel) xLinePair(ja, jb int) {
-	st := l.st
-	x, b, cp := l.opX, l.opB, l.r
-	c, w, s, sw, se := l.c, l.w, l.s, l.sw, l.se
-	nx := l.nx
-	rhs := func(n int) float64 {
-		return b[n] - s[n]*x[n-st] - s[n+st]*x[n+st] -
-			sw[n]*x[n-st-1] - se[n]*x[n-st+1] - sw[n+st+1]*x[n+st+1] - se[n+st-1]*x[n+st-1]
-	}
-	oa := (ja+1)*st + 1
-	if jb < 0 {
-		pc, px := 0.0, 0.0
-		for n := oa; n < oa+nx; n++ {
-			sub := w[n]
-			inv := 1 / (c[n] - sub*pc)
-			pc = w[n+1] * inv
-			px = (rhs(n) - sub*px) * inv
-			cp[n], x[n] = pc, px
-		}
-		for n := oa + nx - 2; n >= oa; n-- {
-			x[n] -= cp[n] * x[n+1]
-		}
+// factorLines computes the pivots of a nine-point level's X lines when
+// its smoother relaxes them, as the finest level's factorLines does.
+func (l *coarseLevel) factorLines() {
+	if l.smoother != LineX && l.smoother != LineXY {
 		return
 	}
-	ob := (jb+1)*st + 1
-	pa, xa, pb, xb := 0.0, 0.0, 0.0, 0.0
-	for i := 0; i < nx; i++ {
-		na, nb := oa+i, ob+i
-		suba, subb := w[na], w[nb]
-		inva := 1 / (c[na] - suba*pa)
-		invb := 1 / (c[nb] - subb*pb)
-		pa, pb = w[na+1]*inva, w[nb+1]*invb
-		xa = (rhs(na) - suba*xa) * inva
-		xb = (rhs(nb) - subb*xb) * invb
-		cp[na], x[na], cp[nb], x[nb] = pa, xa, pb, xb
-	}
-	for i := nx - 2; i >= 0; i-- {
-		na, nb := oa+i, ob+i
-		x[na] -= cp[na] * x[na+1]
-		x[nb] -= cp[nb] * x[nb+1]
-	}
+	st := l.st
+	c, w := l.c, l.w
+	l.pivX = make([]float64, len(c))
+	piv := l.pivX
+	forRows(l.run, l.ny, func(j int) {
+		o := (j+1)*st + 1
+		pc := 0.0
+		for n := o; n < o+l.nx; n++ {
+			inv := 1 / (c[n] - w[n]*pc)
+			pc = w[n+1] * inv
+			piv[n] = inv
+		}
+	})
 }
