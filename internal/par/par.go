@@ -2,24 +2,42 @@ package par
 
 import (
 	"runtime"
-	"sync"
 	"sync/atomic"
+	"time"
 )
 
 // Pool is a set of worker goroutines. The zero value is not usable; create
 // one with New and release it with Close.
+//
+// A loop is published by advancing an epoch counter. Workers wait for the
+// next epoch spinning for a while (spinWait) before they park, because
+// the solvers run loops in quick succession and waking a parked goroutine
+// costs about as much as a loop over a mid-sized grid.
 type Pool struct {
 	workers int
-	wake    chan struct{}
-	wg      sync.WaitGroup
-	closed  bool
+	workerState
+	closed bool
+}
+
+// workerState is what the workers share with the calling goroutine.
+type workerState struct {
+	epoch     atomic.Uint64
+	remaining atomic.Int64
+	stop      atomic.Bool
+	// sleeping[k] is set while worker k is parked on wake[k].
+	sleeping []atomic.Bool
+	wake     []chan struct{}
 
 	// The loop in progress: its body, its length and the next index to
 	// hand out.
-	fn   func(lo, hi int)
-	n    int
-	next atomic.Int64
+	fn       func(lo, hi int)
+	n, chunk int
+	next     atomic.Int64
 }
+
+// spinWait is how long an idle worker polls for the next loop before it
+// parks.
+const spinWait = 50 * time.Microsecond
 
 // New returns a pool of the given number of workers; workers ≤ 0 means
 // runtime.GOMAXPROCS(0).
@@ -29,30 +47,69 @@ func New(workers int) *Pool {
 	}
 	p := &Pool{workers: workers}
 	if workers > 1 {
-		p.wake = make(chan struct{}, workers)
-		for w := 1; w < workers; w++ {
-			go p.run()
+		p.sleeping = make([]atomic.Bool, workers-1)
+		p.wake = make([]chan struct{}, workers-1)
+		for k := range p.wake {
+			p.wake[k] = make(chan struct{}, 1)
+			go p.run(k)
 		}
 	}
 	return p
 }
 
-func (p *Pool) run() {
-	for range p.wake {
-		p.take()
-		p.wg.Done()
+// run is worker k: it takes part in every loop until the pool closes.
+func (s *workerState) run(k int) {
+	var seen uint64
+	for {
+		e := s.await(k, seen)
+		if s.stop.Load() {
+			return
+		}
+		seen = e
+		s.take()
+		s.remaining.Add(-1)
 	}
 }
 
-// take runs the loop body on indices handed out one at a time until none
-// are left.
-func (p *Pool) take() {
+// await returns the first epoch after seen, spinning for spinWait and then
+// parking until the caller wakes the worker.
+func (s *workerState) await(k int, seen uint64) uint64 {
+	start := time.Now()
+	for i := 0; ; i++ {
+		if e := s.epoch.Load(); e != seen {
+			return e
+		}
+		if i&255 != 255 {
+			continue
+		}
+		if time.Since(start) < spinWait {
+			// Let the caller run if it shares this thread.
+			runtime.Gosched()
+			continue
+		}
+		// Park. The caller advances the epoch before it looks at
+		// sleeping, and the worker sets sleeping before it looks at the
+		// epoch again, so one of them sees the other.
+		s.sleeping[k].Store(true)
+		if e := s.epoch.Load(); e != seen {
+			s.sleeping[k].Store(false)
+			return e
+		}
+		<-s.wake[k]
+		s.sleeping[k].Store(false)
+		start = time.Now()
+	}
+}
+
+// take runs the loop body on chunks of indices until none are left.
+func (s *workerState) take() {
+	c := int64(s.chunk)
 	for {
-		k := int(p.next.Add(1) - 1)
-		if k >= p.n {
+		k := int(s.next.Add(c) - c)
+		if k >= s.n {
 			return
 		}
-		p.fn(k, k+1)
+		s.fn(k, min(k+s.chunk, s.n))
 	}
 }
 
@@ -60,29 +117,46 @@ func (p *Pool) take() {
 func (p *Pool) Workers() int { return p.workers }
 
 // For calls fn on sub-ranges covering [0, n) and returns when all have
-// finished. With one worker it calls fn(0, n) once; otherwise the calling
-// goroutine and the workers take the indices one at a time, calling
-// fn(k, k+1), so that a worker held up by the operating system delays the
-// loop by one index, not by a share of the range. fn must be safe to call
-// concurrently on disjoint ranges, and must not call For on the same pool.
-// For does not allocate when fn does not.
+// finished. With one worker, or n < 2, it calls fn(0, n) once; otherwise
+// the calling goroutine and the workers take the indices in chunks of
+// about n/(4·workers), so that a worker held up by the operating system
+// delays the loop by one chunk, not by a share of the range. fn must be
+// safe to call concurrently on disjoint ranges, and must not call For on
+// the same pool. For does not allocate when fn does not.
 func (p *Pool) For(n int, fn func(lo, hi int)) {
-	w := min(p.workers, n)
-	if w <= 1 {
+	if p.workers <= 1 || n < 2 {
 		if n > 0 {
 			fn(0, n)
 		}
 		return
 	}
 	p.fn, p.n = fn, n
+	p.chunk = max(1, n/(4*p.workers))
 	p.next.Store(0)
-	p.wg.Add(w - 1)
-	for k := 1; k < w; k++ {
-		p.wake <- struct{}{}
-	}
+	p.remaining.Store(int64(p.workers - 1))
+	p.epoch.Add(1)
+	p.wakeSleepers()
 	p.take()
-	p.wg.Wait()
+	for i := 0; p.remaining.Load() != 0; i++ {
+		if i&1023 == 1023 {
+			// A worker that was parked may be queued behind this
+			// goroutine.
+			runtime.Gosched()
+		}
+	}
 	p.fn = nil
+}
+
+// wakeSleepers wakes the parked workers after the epoch has advanced.
+func (p *Pool) wakeSleepers() {
+	for k := range p.sleeping {
+		if p.sleeping[k].Load() {
+			select {
+			case p.wake[k] <- struct{}{}:
+			default:
+			}
+		}
+	}
 }
 
 // Close stops the workers. The pool must not be used afterwards.
@@ -91,8 +165,10 @@ func (p *Pool) Close() {
 		return
 	}
 	p.closed = true
-	if p.wake != nil {
-		close(p.wake)
+	if p.workers > 1 {
+		p.stop.Store(true)
+		p.epoch.Add(1)
+		p.wakeSleepers()
 	}
 }
 
