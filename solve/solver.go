@@ -172,7 +172,11 @@ type Solver interface {
 	Close()
 }
 
-// NewSolver sets up a solver for sys following set.
+// NewSolver sets up a solver for sys following set. When the box around
+// the free nodes holds at most three quarters of the grid, it works on it
+// only (fixed margins at the domain's edges, such as the outside of a
+// shield, then cost nothing); vectors passed to Solve still cover the
+// whole grid.
 func NewSolver(sys *System, set *Settings) (Solver, error) {
 	o := set.withDefaults()
 	if !(o.Tol > 0 && o.Tol < 1) {
@@ -185,16 +189,27 @@ func NewSolver(sys *System, set *Settings) (Solver, error) {
 		return nil, fmt.Errorf("solve: SOR relaxation factor must lie in (0, 2), got %g", o.Omega)
 	}
 	switch o.Method {
+	case SOR, CG, Default, MGCG, MG:
+	default:
+		return nil, fmt.Errorf("solve: unknown method %d", int(o.Method))
+	}
+	if c, err := newCropped(sys, o, newMethod); c != nil || err != nil {
+		return c, err
+	}
+	return newMethod(sys, o)
+}
+
+// newMethod sets up the solver of o.Method for sys.
+func newMethod(sys *System, o Settings) (Solver, error) {
+	switch o.Method {
 	case SOR:
 		return newSOR(sys, o), nil
 	case CG:
 		return newCG(sys, o), nil
-	case Default, MGCG:
-		return newDefault(sys, o)
 	case MG:
 		return NewMultigrid(sys, &o)
 	}
-	return nil, fmt.Errorf("solve: unknown method %d", int(o.Method))
+	return newDefault(sys, o)
 }
 
 // Solve is a convenience that sets up a solver, solves once and releases
