@@ -29,7 +29,10 @@
 //     relaxation factor.
 //
 // CG and SOR are there because users expect them and because they check
-// the fast path; all methods agree to their tolerance. A solver is set up
+// the fast path; all methods agree to their tolerance. Every method works
+// on the box around the free nodes when that box is at most three quarters
+// of the grid, so fixed margins at the domain's edges (the outside of a
+// shield, say) cost no iterations' work. A solver is set up
 // once (hierarchy, workspaces) and solves any number of right-hand sides
 // without allocating. EstimateMemory tells the bytes a set-up needs before
 // it is made; TimeResidual times one operator evaluation, the unit of
