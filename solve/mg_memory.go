@@ -10,8 +10,8 @@ package solve
 // The figure is computed from the same sizes the set-up allocates, so it
 // can be checked before committing memory to a large grid. Where NewSolver
 // works on the box around the free nodes, it allocates the figure for the
-// box plus about 41 bytes per box node, which is no more than the figure
-// for the whole grid. For multigrid
+// box plus about 41 bytes per box node: at most about the figure for the
+// whole grid, as the box then holds at most three quarters of it. For multigrid
 // it assumes point relaxation; where the operator is strongly
 // anisotropic, line relaxation adds 8 bytes per node of the finest level
 // (its residual), 8 more where it relaxes X lines (their pivots), and 8
