@@ -213,18 +213,24 @@ func (l *coarseLevel) relaxRow(j int, back bool) {
 	c, w, s := l.c[o:o+st:o+st], l.w[o:o+st:o+st], l.s[o:o+st:o+st]
 	sw, se := l.sw[o:o+st:o+st], l.se[o:o+st:o+st]
 	sN, swN, seN := l.s[o+st:o+2*st:o+2*st], l.sw[o+st:o+2*st:o+2*st], l.se[o+st:o+2*st:o+2*st]
+	// All slices have the row's length, and node i = k+1 is reached
+	// through unsigned k with k+2 < len: the compiler then drops the
+	// bounds checks and keeps fewer values in registers.
+	n := len(xr)
+	xs, xn, b, c, w, s = xs[:n], xn[:n], b[:n], c[:n], w[:n], s[:n]
+	sw, se, sN, swN, seN = sw[:n], se[:n], sN[:n], swN[:n], seN[:n]
 	for q := 0; q < 2; q++ {
 		pi := q
 		if back {
 			pi = 1 - q
 		}
-		for i := 1 + pi; i+1 < len(xr); i += 2 {
+		for k := uint(pi); k+2 < uint(n); k += 2 {
 			// Three partial sums shorten the chain of dependent
 			// additions.
-			v0 := b[i] - w[i]*xr[i-1] - w[i+1]*xr[i+1]
-			v1 := s[i]*xs[i] + sN[i]*xn[i] + sw[i]*xs[i-1]
-			v2 := se[i]*xs[i+1] + swN[i+1]*xn[i+1] + seN[i-1]*xn[i-1]
-			xr[i] = (v0 - (v1 + v2)) / c[i]
+			v0 := b[k+1] - w[k+1]*xr[k] - w[k+2]*xr[k+2]
+			v1 := s[k+1]*xs[k+1] + sN[k+1]*xn[k+1] + sw[k+1]*xs[k]
+			v2 := se[k+1]*xs[k+2] + swN[k+2]*xn[k+2] + seN[k]*xn[k]
+			xr[k+1] = (v0 - (v1 + v2)) / c[k+1]
 		}
 	}
 }
@@ -247,11 +253,14 @@ func (l *coarseLevel) residualBlocks(lo, hi int) {
 			c, w, s := l.c[o:o+st:o+st], l.w[o:o+st:o+st], l.s[o:o+st:o+st]
 			sw, se := l.sw[o:o+st:o+st], l.se[o:o+st:o+st]
 			sN, swN, seN := l.s[o+st:o+2*st:o+2*st], l.sw[o+st:o+2*st:o+2*st], l.se[o+st:o+2*st:o+2*st]
-			for i := 1; i+1 < len(xr); i++ {
-				v0 := b[i] - c[i]*xr[i] - w[i]*xr[i-1] - w[i+1]*xr[i+1]
-				v1 := s[i]*xs[i] + sN[i]*xn[i] + sw[i]*xs[i-1]
-				v2 := se[i]*xs[i+1] + swN[i+1]*xn[i+1] + seN[i-1]*xn[i-1]
-				r[i] = v0 - (v1 + v2)
+			n := len(xr)
+			xs, xn, b, r, c, w, s = xs[:n], xn[:n], b[:n], r[:n], c[:n], w[:n], s[:n]
+			sw, se, sN, swN, seN = sw[:n], se[:n], sN[:n], swN[:n], seN[:n]
+			for k := uint(0); k+2 < uint(n); k++ {
+				v0 := b[k+1] - c[k+1]*xr[k+1] - w[k+1]*xr[k] - w[k+2]*xr[k+2]
+				v1 := s[k+1]*xs[k+1] + sN[k+1]*xn[k+1] + sw[k+1]*xs[k]
+				v2 := se[k+1]*xs[k+2] + swN[k+2]*xn[k+2] + seN[k]*xn[k]
+				r[k+1] = v0 - (v1 + v2)
 			}
 		}
 	}

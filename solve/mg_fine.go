@@ -318,12 +318,17 @@ func (f *fineLevel) relaxRow(j, color int) {
 		x[n] = (b[n] + ax[n]*x[n+1] + ay[n-nx]*x[n-nx] + ay[n]*x[n+nx]) * inv[n]
 		i = 2
 	}
-	// Row slices let the compiler drop most bounds checks.
+	// Row slices of one length, and node i = k+1 reached through unsigned
+	// k with k+2 < nx, let the compiler drop the bounds checks.
 	xr, xs, xn := x[o:o+nx], x[o-nx:o], x[o+nx:o+2*nx]
 	br, ir, axr, ays, ayr := b[o:o+nx], inv[o:o+nx], ax[o:o+nx], ay[o-nx:o], ay[o:o+nx]
-	for ; i < nx-1; i += 2 {
-		xr[i] = ((br[i] + axr[i-1]*xr[i-1] + axr[i]*xr[i+1]) + (ays[i]*xs[i] + ayr[i]*xn[i])) * ir[i]
+	m := len(xr)
+	xs, xn, br, ir, axr, ays, ayr = xs[:m], xn[:m], br[:m], ir[:m], axr[:m], ays[:m], ayr[:m]
+	k := uint(i - 1)
+	for ; k+2 < uint(m); k += 2 {
+		xr[k+1] = ((br[k+1] + axr[k]*xr[k] + axr[k+1]*xr[k+2]) + (ays[k+1]*xs[k+1] + ayr[k+1]*xn[k+1])) * ir[k+1]
 	}
+	i = int(k) + 1
 	if i == nx-1 {
 		n := o + i
 		x[n] = (b[n] + ax[n-1]*x[n-1] + ay[n-nx]*x[n-nx] + ay[n]*x[n+nx]) * inv[n]
