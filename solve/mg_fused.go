@@ -237,21 +237,29 @@ func (f *fineLevel) prolongRedRow(j int) {
 	q0, k0, c0 := (j-1)*nx, ncx*J, (J+1)*cst+1
 	hasNN := j+1 < ny
 	uw := (ay[q0]*xc[c0] + ay[q0+nx]*xc[c0+cst]) * iy[k0]
+	// Row slices: S is fine row j−1 (a coarse row), C row j, N row j+1;
+	// the coarse rows J and J+1 of xc; the weights of coarse row J (and
+	// of J+1 for the x-edges above).
+	axS, ayS := ax[q0:q0+nx], ay[q0:q0+nx]
+	axC, ayC, invC, xC := ax[q0+nx:q0+2*nx], ay[q0+nx:q0+2*nx], inv[q0+nx:q0+2*nx], x[q0+nx:q0+2*nx]
+	var axN, ixN []float64
+	if hasNN {
+		axN, ixN = ax[q0+2*nx:q0+3*nx], ix[k0+ncx:k0+2*ncx]
+	}
+	xcS, xcN := xc[c0:c0+ncx+1], xc[c0+cst:c0+cst+ncx+1]
+	ixS, iyS := ix[k0:k0+ncx], iy[k0:k0+ncx]
 	for I := 0; 2*I+1 < nx; I++ {
-		q, cn, k := q0+2*I, c0+I, k0+I
-		v, ve := xc[cn], xc[cn+1]
-		us := (ax[q]*v + ax[q+1]*ve) * ix[k]
+		i := 2 * I
+		v, ve := xcS[I], xcS[I+1]
+		us := (axS[i]*v + axS[i+1]*ve) * ixS[I]
 		var ue, un float64
-		if 2*I+2 < nx {
-			ue = (ay[q+2]*ve + ay[q+2+nx]*xc[cn+cst+1]) * iy[k+1]
+		if i+2 < nx {
+			ue = (ayS[i+2]*ve + ayC[i+2]*xcN[I+1]) * iyS[I+1]
 		}
 		if hasNN {
-			qn := q + 2*nx
-			un = (ax[qn]*xc[cn+cst] + ax[qn+1]*xc[cn+cst+1]) * ix[k+ncx]
+			un = (axN[i]*xcN[I] + axN[i+1]*xcN[I+1]) * ixN[I]
 		}
-		e := q + nx
-		m := e + 1
-		x[m] += (ax[e]*uw + ax[m]*ue + ay[m-nx]*us + ay[m]*un) * inv[m]
+		xC[i+1] += (axC[i]*uw + axC[i+1]*ue + ayS[i+1]*us + ayC[i+1]*un) * invC[i+1]
 		uw = ue
 	}
 }

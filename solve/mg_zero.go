@@ -59,10 +59,16 @@ func (f *fineLevel) blackRow(j int, out []float64) {
 		out[0] = (br[0] + axr[0]*(br[1]*ir[1]) + ays[0]*(bs[0]*is[0]) + ayr[0]*(bn[0]*in[0])) * ir[0]
 		i, I = 2, 1
 	}
-	for ; i+1 < len(br); i, I = i+2, I+1 {
-		out[I] = ((br[i] + axr[i-1]*(br[i-1]*ir[i-1]) + axr[i]*(br[i+1]*ir[i+1])) +
-			(ays[i]*(bs[i]*is[i]) + ayr[i]*(bn[i]*in[i]))) * ir[i]
+	// One length for every row slice and node i = k+1 reached through
+	// unsigned k with k+2 < nx let the compiler drop the bounds checks.
+	m := len(br)
+	ir, axr, bs, is, ays, bn, in, ayr = ir[:m], axr[:m], bs[:m], is[:m], ays[:m], bn[:m], in[:m], ayr[:m]
+	k := uint(i - 1)
+	for ; k+2 < uint(m); k, I = k+2, I+1 {
+		out[I] = ((br[k+1] + axr[k]*(br[k]*ir[k]) + axr[k+1]*(br[k+2]*ir[k+2])) +
+			(ays[k+1]*(bs[k+1]*is[k+1]) + ayr[k+1]*(bn[k+1]*in[k+1]))) * ir[k+1]
 	}
+	i = int(k) + 1
 	if i == nx-1 {
 		out[I] = (br[i] + axr[i-1]*(br[i-1]*ir[i-1]) + ays[i]*(bs[i]*is[i]) + ayr[i]*(bn[i]*in[i])) * ir[i]
 	}
@@ -109,9 +115,13 @@ func (f *fineLevel) redResidual0(j int, xs, xr, xn, out []float64) {
 		out[0] = br[0] - dr[0]*(br[0]*ir[0]) + axr[0]*xr[0] + ays[0]*xs[0] + ayr[0]*xn[0]
 		i, I = 2, 1
 	}
-	for ; i+1 < len(br); i, I = i+2, I+1 {
-		out[I] = (br[i] - dr[i]*(br[i]*ir[i]) + axr[i-1]*xr[I-1+p]) + (axr[i]*xr[I+p] + ays[i]*xs[I] + ayr[i]*xn[I])
+	m := len(br)
+	ir, dr, axr, ays, ayr = ir[:m], dr[:m], axr[:m], ays[:m], ayr[:m]
+	k := uint(i - 1)
+	for ; k+2 < uint(m); k, I = k+2, I+1 {
+		out[I] = (br[k+1] - dr[k+1]*(br[k+1]*ir[k+1]) + axr[k]*xr[I-1+p]) + (axr[k+1]*xr[I+p] + ays[k+1]*xs[I] + ayr[k+1]*xn[I])
 	}
+	i = int(k) + 1
 	if i == nx-1 {
 		out[I] = br[i] - dr[i]*(br[i]*ir[i]) + axr[i-1]*xr[I-1+p] + ays[i]*xs[I] + ayr[i]*xn[I]
 	}
@@ -152,8 +162,10 @@ func (f *fineLevel) zeroBlocks(lo, hi int) {
 			// The red values of this coarse row's two fine rows.
 			for jj := j; jj < min(j+2, ny); jj++ {
 				o := jj * nx
-				for i := jj & 1; i < nx; i += 2 {
-					x[o+i] = b[o+i] * inv[o+i]
+				xr, br, ir := x[o:o+nx], b[o:o+nx], inv[o:o+nx]
+				br, ir = br[:len(xr)], ir[:len(xr)]
+				for i := uint(jj & 1); i < uint(len(xr)); i += 2 {
+					xr[i] = br[i] * ir[i]
 				}
 			}
 			if hasN {
@@ -176,18 +188,41 @@ func (f *fineLevel) zeroBlocks(lo, hi int) {
 					d[I] += v
 				}
 			}
-			for I := 0; I < nXE; I++ {
-				e := q0 + 2*I + 1
-				var t float64
-				if J > 0 {
-					t = ay[e-nx] * inv[e-nx] * prev[I]
+			// x-edges of this row, to both coarse neighbours.
+			if J > 0 && hasN {
+				qs := q0 - nx
+				ayS, invS, invN := ay[qs:qs+nx], inv[qs:qs+nx], inv[q0+nx:q0+2*nx]
+				ayS, invS, invN, axR = ayS[:len(ayR)], invS[:len(ayR)], invN[:len(ayR)], axR[:len(ayR)]
+				pv, nv := prev[:nXE], next[:nXE]
+				// Every x-edge but, on an even-width row, the last has
+				// an east coarse neighbour.
+				last := min(nXE, ncx-1)
+				for I := range last {
+					i := 2*I + 1
+					t := ayS[i]*invS[i]*pv[I] + ayR[i]*invN[i]*nv[I]
+					d[I] += axR[i-1] * ixR[I] * t
+					d[I+1] += axR[i] * ixR[I] * t
 				}
-				if hasN {
-					t += ay[e] * inv[e+nx] * next[I]
+				if last < nXE {
+					I := last
+					i := 2*I + 1
+					t := ayS[i]*invS[i]*pv[I] + ayR[i]*invN[i]*nv[I]
+					d[I] += axR[i-1] * ixR[I] * t
 				}
-				d[I] += axR[2*I] * ixR[I] * t
-				if I+1 < ncx {
-					d[I+1] += ax[e] * ixR[I] * t
+			} else {
+				for I := 0; I < nXE; I++ {
+					e := q0 + 2*I + 1
+					var t float64
+					if J > 0 {
+						t = ay[e-nx] * inv[e-nx] * prev[I]
+					}
+					if hasN {
+						t += ay[e] * inv[e+nx] * next[I]
+					}
+					d[I] += axR[2*I] * ixR[I] * t
+					if I+1 < ncx {
+						d[I+1] += ax[e] * ixR[I] * t
+					}
 				}
 			}
 			if hasN {
