@@ -67,11 +67,9 @@ func (f *fineLevel) redBlocks(lo, hi int) {
 	s := f.sys
 	nx, ny := f.nx, f.ny
 	inv := f.k.invDiag
-	ax, ay, ix, iy := s.AX, s.AY, f.ix, f.iy
+	ax, ay, iy := s.AX, s.AY, f.iy
 	ncx, cst := f.ncx, f.ncx+2
 	blocks := min(64, f.ncy)
-	// nXE is the number of x-edge points on an even row.
-	nXE := nx / 2
 	for blk := lo; blk < hi; blk++ {
 		buf := f.redBuf[blk*4*ncx : (blk+1)*4*ncx]
 		prev, next, carry, rc := buf[:ncx], buf[ncx:2*ncx], buf[2*ncx:3*ncx], buf[3*ncx:]
@@ -89,7 +87,7 @@ func (f *fineLevel) redBlocks(lo, hi int) {
 			d := f.cb[(J+1)*cst+1 : (J+1)*cst+1+ncx]
 			copy(d, rc)
 			q0, k0 := j*nx, ncx*J
-			axR, ayR, ixR, iyR := ax[q0:q0+nx], ay[q0:q0+nx], ix[k0:k0+ncx], iy[k0:k0+ncx]
+			ayR, iyR := ay[q0:q0+nx], iy[k0:k0+ncx]
 			// South y-edges: carried from the row below, or computed
 			// afresh at the block's first row by the same expression.
 			if J > 0 {
@@ -104,35 +102,7 @@ func (f *fineLevel) redBlocks(lo, hi int) {
 					d[I] += v
 				}
 			}
-			// x-edges of this row, to both coarse neighbours.
-			switch {
-			case J > 0 && hasN:
-				qs := q0 - nx
-				ayS, invS, invN := ay[qs:qs+nx], inv[qs:qs+nx], inv[q0+nx:q0+2*nx]
-				for I := 0; I < nXE; I++ {
-					i := 2*I + 1
-					t := ayS[i]*invS[i]*prev[I] + ayR[i]*invN[i]*next[I]
-					d[I] += axR[i-1] * ixR[I] * t
-					if I+1 < ncx {
-						d[I+1] += axR[i] * ixR[I] * t
-					}
-				}
-			default:
-				for I := 0; I < nXE; I++ {
-					e := q0 + 2*I + 1
-					var t float64
-					if J > 0 {
-						t = ay[e-nx] * inv[e-nx] * prev[I]
-					}
-					if hasN {
-						t += ay[e] * inv[e+nx] * next[I]
-					}
-					d[I] += ax[e-1] * ixR[I] * t
-					if I+1 < ncx {
-						d[I+1] += ax[e] * ixR[I] * t
-					}
-				}
-			}
+			f.addXEdges(J, prev, next, d)
 			// North y-edges, to this row and carried to the next.
 			if hasN {
 				qn := q0 + nx
@@ -261,5 +231,56 @@ func (f *fineLevel) prolongRedRow(j int) {
 		}
 		xC[i+1] += (axC[i]*uw + axC[i+1]*ue + ayS[i+1]*us + ayC[i+1]*un) * invC[i+1]
 		uw = ue
+	}
+}
+
+// addXEdges adds to d, the restricted residuals of coarse row J, what the
+// x-edge points of fine row 2J pass on to their two coarse neighbours,
+// given the residuals prev and next of the cell centres in the rows below
+// and above (entry I for the centre above or below x-edge I).
+func (f *fineLevel) addXEdges(J int, prev, next, d []float64) {
+	s := f.sys
+	nx, ny, ncx := f.nx, f.ny, f.ncx
+	ax, ay, inv := s.AX, s.AY, f.k.invDiag
+	j := 2 * J
+	hasN := j+1 < ny
+	q0, k0 := j*nx, ncx*J
+	axR, ayR, ixR := ax[q0:q0+nx], ay[q0:q0+nx], f.ix[k0:k0+ncx]
+	// nXE is the number of x-edge points on the row; every one but, on
+	// an even-width row, the last has an east coarse neighbour.
+	nXE := nx / 2
+	last := min(nXE, ncx-1)
+	if J > 0 && hasN {
+		qs := q0 - nx
+		ayS, invS, invN := ay[qs:qs+nx], inv[qs:qs+nx], inv[q0+nx:q0+2*nx]
+		ayS, invS, invN, axR = ayS[:len(ayR)], invS[:len(ayR)], invN[:len(ayR)], axR[:len(ayR)]
+		pv, nv := prev[:nXE], next[:nXE]
+		for I := range last {
+			i := 2*I + 1
+			t := ayS[i]*invS[i]*pv[I] + ayR[i]*invN[i]*nv[I]
+			d[I] += axR[i-1] * ixR[I] * t
+			d[I+1] += axR[i] * ixR[I] * t
+		}
+		if last < nXE {
+			I := last
+			i := 2*I + 1
+			t := ayS[i]*invS[i]*pv[I] + ayR[i]*invN[i]*nv[I]
+			d[I] += axR[i-1] * ixR[I] * t
+		}
+		return
+	}
+	for I := 0; I < nXE; I++ {
+		e := q0 + 2*I + 1
+		var t float64
+		if J > 0 {
+			t = ay[e-nx] * inv[e-nx] * prev[I]
+		}
+		if hasN {
+			t += ay[e] * inv[e+nx] * next[I]
+		}
+		d[I] += ax[e-1] * ixR[I] * t
+		if I < last {
+			d[I+1] += ax[e] * ixR[I] * t
+		}
 	}
 }

@@ -131,11 +131,10 @@ func (f *fineLevel) zeroBlocks(lo, hi int) {
 	s := f.sys
 	nx, ny := f.nx, f.ny
 	inv := f.k.invDiag
-	ax, ay, ix, iy := s.AX, s.AY, f.ix, f.iy
+	ax, ay, iy := s.AX, s.AY, f.iy
 	x, b := f.opX, f.opB
 	ncx, cst := f.ncx, f.ncx+2
 	blocks := min(64, f.ncy)
-	nXE := nx / 2
 	w := nx/2 + 1
 	for blk := lo; blk < hi; blk++ {
 		buf := f.zeroBuf[blk*9*w : (blk+1)*9*w]
@@ -175,7 +174,7 @@ func (f *fineLevel) zeroBlocks(lo, hi int) {
 			d := f.cb[(J+1)*cst+1 : (J+1)*cst+1+ncx]
 			copy(d, rc[:ncx])
 			q0, k0 := j*nx, ncx*J
-			axR, ayR, ixR, iyR := ax[q0:q0+nx], ay[q0:q0+nx], ix[k0:k0+ncx], iy[k0:k0+ncx]
+			ayR, iyR := ay[q0:q0+nx], iy[k0:k0+ncx]
 			if J > 0 {
 				if J == J0 {
 					qs := q0 - nx
@@ -189,42 +188,7 @@ func (f *fineLevel) zeroBlocks(lo, hi int) {
 				}
 			}
 			// x-edges of this row, to both coarse neighbours.
-			if J > 0 && hasN {
-				qs := q0 - nx
-				ayS, invS, invN := ay[qs:qs+nx], inv[qs:qs+nx], inv[q0+nx:q0+2*nx]
-				ayS, invS, invN, axR = ayS[:len(ayR)], invS[:len(ayR)], invN[:len(ayR)], axR[:len(ayR)]
-				pv, nv := prev[:nXE], next[:nXE]
-				// Every x-edge but, on an even-width row, the last has
-				// an east coarse neighbour.
-				last := min(nXE, ncx-1)
-				for I := range last {
-					i := 2*I + 1
-					t := ayS[i]*invS[i]*pv[I] + ayR[i]*invN[i]*nv[I]
-					d[I] += axR[i-1] * ixR[I] * t
-					d[I+1] += axR[i] * ixR[I] * t
-				}
-				if last < nXE {
-					I := last
-					i := 2*I + 1
-					t := ayS[i]*invS[i]*pv[I] + ayR[i]*invN[i]*nv[I]
-					d[I] += axR[i-1] * ixR[I] * t
-				}
-			} else {
-				for I := 0; I < nXE; I++ {
-					e := q0 + 2*I + 1
-					var t float64
-					if J > 0 {
-						t = ay[e-nx] * inv[e-nx] * prev[I]
-					}
-					if hasN {
-						t += ay[e] * inv[e+nx] * next[I]
-					}
-					d[I] += axR[2*I] * ixR[I] * t
-					if I+1 < ncx {
-						d[I+1] += ax[e] * ixR[I] * t
-					}
-				}
-			}
+			f.addXEdges(J, prev, next, d)
 			if hasN {
 				qn := q0 + nx
 				axN, ayN, invN := ax[qn:qn+nx], ay[qn:qn+nx], inv[qn:qn+nx]
