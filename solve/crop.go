@@ -56,41 +56,43 @@ type cropped struct {
 	b, x   []float64
 }
 
-// newCropped returns a solver on the box around the free nodes of sys, or
-// nil when the box holds more than cropShare of the nodes.
-func newCropped(sys *System, o Settings, build func(*System, Settings) (Solver, error)) (Solver, error) {
+// newCropped returns a solver of o.Method on the box around the free
+// nodes of sys, or nil when the box holds more than cropShare of the
+// nodes. Every node beyond the box is fixed, so the box's last column and
+// row couple to nothing beyond it, as a System's must.
+func newCropped(sys *System, o Settings) (Solver, error) {
 	start := time.Now()
 	i0, i1, j0, j1, ok := sys.freeBox()
 	nx, ny := i1-i0, j1-j0
 	if !ok || float64(nx*ny) > cropShare*float64(sys.Len()) {
 		return nil, nil
 	}
-	sub := &System{Nx: nx, Ny: ny}
 	n := nx * ny
-	sub.Diag, sub.AX, sub.AY = make([]float64, n), make([]float64, n), make([]float64, n)
-	sub.Fixed = make([]bool, n)
-	for j := 0; j < ny; j++ {
-		src, dst := (j+j0)*sys.Nx+i0, j*nx
-		copy(sub.Diag[dst:dst+nx], sys.Diag[src:src+nx])
-		copy(sub.AX[dst:dst+nx], sys.AX[src:src+nx])
-		copy(sub.AY[dst:dst+nx], sys.AY[src:src+nx])
-		copy(sub.Fixed[dst:dst+nx], sys.Fixed[src:src+nx])
-	}
-	// Every node beyond the box is fixed, so the box's last column and
-	// row have no couplings beyond it already; clearing them keeps the
-	// convention whatever the System.
-	for j := 0; j < ny; j++ {
-		sub.AX[j*nx+nx-1] = 0
-	}
-	clear(sub.AY[(ny-1)*nx:])
+	sub := &System{Nx: nx, Ny: ny, Diag: make([]float64, n), AX: make([]float64, n), AY: make([]float64, n), Fixed: make([]bool, n)}
 	c := &cropped{full: sys, sub: sub, i0: i0, j0: j0, b: make([]float64, n), x: make([]float64, n)}
-	inner, err := build(sub, o)
+	c.rows(func(box, grid [2]int) {
+		copy(sub.Diag[box[0]:box[1]], sys.Diag[grid[0]:grid[1]])
+		copy(sub.AX[box[0]:box[1]], sys.AX[grid[0]:grid[1]])
+		copy(sub.AY[box[0]:box[1]], sys.AY[grid[0]:grid[1]])
+		copy(sub.Fixed[box[0]:box[1]], sys.Fixed[grid[0]:grid[1]])
+	})
+	inner, err := newMethod(sub, o)
 	if err != nil {
 		return nil, err
 	}
 	c.inner = inner
 	c.setup = time.Since(start)
 	return c, nil
+}
+
+// rows calls fn with the index ranges of every box row in the box's
+// vectors and in the whole grid's.
+func (c *cropped) rows(fn func(box, grid [2]int)) {
+	nx, fx := c.sub.Nx, c.full.Nx
+	for j := 0; j < c.sub.Ny; j++ {
+		src, dst := (j+c.j0)*fx+c.i0, j*nx
+		fn([2]int{dst, dst + nx}, [2]int{src, src + nx})
+	}
 }
 
 // Solve implements Solver.
@@ -100,17 +102,14 @@ func (c *cropped) Solve(ctx context.Context, b, x []float64) (*Result, error) {
 	}
 	start := time.Now()
 	c.full.setFixed(x, b)
-	nx, ny, fx := c.sub.Nx, c.sub.Ny, c.full.Nx
-	for j := 0; j < ny; j++ {
-		src, dst := (j+c.j0)*fx+c.i0, j*nx
-		copy(c.b[dst:dst+nx], b[src:src+nx])
-		copy(c.x[dst:dst+nx], x[src:src+nx])
-	}
+	c.rows(func(box, grid [2]int) {
+		copy(c.b[box[0]:box[1]], b[grid[0]:grid[1]])
+		copy(c.x[box[0]:box[1]], x[grid[0]:grid[1]])
+	})
 	res, err := c.inner.Solve(ctx, c.b, c.x)
-	for j := 0; j < ny; j++ {
-		src, dst := (j+c.j0)*fx+c.i0, j*nx
-		copy(x[src:src+nx], c.x[dst:dst+nx])
-	}
+	c.rows(func(box, grid [2]int) {
+		copy(x[grid[0]:grid[1]], c.x[box[0]:box[1]])
+	})
 	if res != nil {
 		res.Setup = c.setup
 		res.Elapsed = time.Since(start)

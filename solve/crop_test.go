@@ -121,3 +121,28 @@ func TestNoCropWhenFreeNodesFillTheGrid(t *testing.T) {
 		t.Error("unit square solved on a box")
 	}
 }
+
+// TestCroppedSolveDoesNotAllocate: a solve on the box allocates only its
+// Result, like a solve on the whole grid.
+func TestCroppedSolveDoesNotAllocate(t *testing.T) {
+	s := coaxInBox(t, 71)
+	b := caseRHS(s)
+	solver, err := NewSolver(s, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer solver.Close()
+	if _, ok := solver.(*cropped); !ok {
+		t.Fatal("solver works on the whole grid, want the box")
+	}
+	x := make([]float64, s.Len())
+	allocs := testing.AllocsPerRun(5, func() {
+		clear(x)
+		if _, err := solver.Solve(context.Background(), b, x); err != nil {
+			t.Fatal(err)
+		}
+	})
+	if allocs > 1 {
+		t.Errorf("a solve on the box allocates %v times, want only its Result", allocs)
+	}
+}

@@ -349,10 +349,8 @@ func (l *coarseLevel) yForwardRow(j, i0, i1 int) {
 	st, nx := l.st, l.nx
 	o := (j+1)*st + 1
 	x := l.opX
-	// Row slices start one column left of the row, so that column i of
-	// the row is entry i+1.
-	// x around the node: west, own, east; south-west, south, south-east;
-	// north-west and north-east.
+	// x around the node, all slices indexed by the node's column: west,
+	// own, east; south-west, south, south-east; north-west, north-east.
 	xw, xo, xe := x[o-1:o-1+nx], x[o:o+nx], x[o+1:o+1+nx]
 	sw0, ss0, se0 := x[o-st-1:o-st-1+nx], x[o-st:o-st+nx], x[o-st+1:o-st+1+nx]
 	nw0, ne0 := x[o+st-1:o+st-1+nx], x[o+st+1:o+st+1+nx]

@@ -193,7 +193,7 @@ func NewSolver(sys *System, set *Settings) (Solver, error) {
 	default:
 		return nil, fmt.Errorf("solve: unknown method %d", int(o.Method))
 	}
-	if c, err := newCropped(sys, o, newMethod); c != nil || err != nil {
+	if c, err := newCropped(sys, o); c != nil || err != nil {
 		return c, err
 	}
 	return newMethod(sys, o)
